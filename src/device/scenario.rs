@@ -1,0 +1,202 @@
+//! The checked, unit-converted description of one device: what the solver sees.
+
+use serde::Serialize;
+
+/// Device architecture (the contract's names).
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize)]
+pub enum Architecture {
+    Bulk,
+    ThinBody,
+    DoubleGate,
+    TriGate,
+    GateAllAround,
+    /// A fin gated on its two sides only, under a thick dielectric cap.
+    CappedFin,
+}
+
+impl Architecture {
+    pub const ALL: [Architecture; 6] = [
+        Architecture::Bulk,
+        Architecture::ThinBody,
+        Architecture::DoubleGate,
+        Architecture::TriGate,
+        Architecture::GateAllAround,
+        Architecture::CappedFin,
+    ];
+
+    pub fn name(&self) -> &'static str {
+        match self {
+            Architecture::Bulk => "bulk",
+            Architecture::ThinBody => "thin-body",
+            Architecture::DoubleGate => "double-gate",
+            Architecture::TriGate => "tri-gate",
+            Architecture::GateAllAround => "gate-all-around",
+            Architecture::CappedFin => "capped-fin",
+        }
+    }
+
+    pub fn from_name(s: &str) -> Option<Self> {
+        Self::ALL.into_iter().find(|a| a.name() == s)
+    }
+
+    /// Solved as a 2D along-channel cross-section.
+    pub fn is_planar(&self) -> bool {
+        matches!(self, Architecture::Bulk | Architecture::ThinBody | Architecture::DoubleGate)
+    }
+
+    /// Fin or wire: analysed through the cross-section perpendicular to the channel.
+    pub fn is_fin(&self) -> bool {
+        !self.is_planar()
+    }
+}
+
+impl std::fmt::Display for Architecture {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        f.write_str(self.name())
+    }
+}
+
+/// Channel polarity.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+pub enum Polarity {
+    N,
+    P,
+}
+
+impl Polarity {
+    /// +1 for n-channel, -1 for p-channel.
+    pub fn sign(&self) -> f64 {
+        match self {
+            Polarity::N => 1.0,
+            Polarity::P => -1.0,
+        }
+    }
+
+    pub fn name(&self) -> &'static str {
+        match self {
+            Polarity::N => "n",
+            Polarity::P => "p",
+        }
+    }
+}
+
+/// One gate-stack layer, from the channel outward.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct StackLayer {
+    /// Material name, or "eps=<value>" when given by permittivity.
+    pub material: String,
+    pub eps_r: f64,
+    pub thickness_nm: f64,
+}
+
+/// Geometry, nm.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Geometry {
+    pub gate_length_nm: f64,
+    /// Silicon thickness (thin-body, double-gate) or fin/wire width (fins).
+    pub body_thickness_nm: f64,
+    pub fin_height_nm: f64,
+    pub fin_pitch_nm: f64,
+    pub box_thickness_nm: f64,
+    pub source_drain_length_nm: f64,
+    pub junction_depth_nm: f64,
+    pub substrate_depth_nm: f64,
+    pub gate_height_nm: f64,
+    pub spacer_eps: f64,
+    pub spacer_material: String,
+    pub box_eps: f64,
+    /// Capped fin: dielectric cap thickness on the fin top.
+    pub cap_thickness_nm: f64,
+    pub cap_eps: f64,
+}
+
+/// Gate electrodes.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Gate {
+    pub workfunction_ev: f64,
+    pub back_workfunction_ev: f64,
+    pub back_bias_v: f64,
+}
+
+/// Doping, cm^-3 (converted to nm^-3 where the mesh is built).
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Doping {
+    /// Channel dopant density (acceptors for n, donors for p), cm^-3.
+    pub channel_cm3: f64,
+    /// Source/drain dopant density, cm^-3.
+    pub source_drain_cm3: f64,
+    /// > 0: junctions extend under the gate.
+    pub junction_offset_nm: f64,
+    /// 0: abrupt; else a decade per this length.
+    pub junction_gradient_nm_per_decade: f64,
+}
+
+/// Bias plan, V, as the user typed it (for p-channel devices these are negative).
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Bias {
+    pub vds_lin_v: f64,
+    pub vds_sat_v: f64,
+    pub vgs_start_v: f64,
+    pub vgs_stop_v: f64,
+    pub vgs_step_v: f64,
+    pub off_vgs_v: f64,
+}
+
+impl Bias {
+    /// Gate voltages from start to stop in steps (stop included when it falls on the grid).
+    pub fn gate_voltages(&self) -> Vec<f64> {
+        let n = ((self.vgs_stop_v - self.vgs_start_v) / self.vgs_step_v + 1e-9).floor() as usize;
+        (0..=n).map(|k| self.vgs_start_v + k as f64 * self.vgs_step_v).collect()
+    }
+}
+
+/// Extraction settings.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Extraction {
+    /// I_cc in V_t: I_D = I_cc W / L_g, A.
+    pub current_criterion_a: f64,
+    pub mobility_cm2_per_vs: f64,
+}
+
+/// Mesh settings.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct MeshSettings {
+    pub max_step_nm: f64,
+    /// Every step divided by this (1: default mesh; 2: twice as fine).
+    pub refinement: f64,
+}
+
+/// A validated device, ready for the solver.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Scenario {
+    pub name: String,
+    pub architecture: Architecture,
+    pub polarity: Polarity,
+    pub temperature_k: f64,
+    pub geometry: Geometry,
+    pub stack: Vec<StackLayer>,
+    pub gate: Gate,
+    pub doping: Doping,
+    pub bias: Bias,
+    pub extraction: Extraction,
+    pub mesh: MeshSettings,
+    /// Warnings raised during validation (keys without effect, etc.).
+    pub warnings: Vec<String>,
+}
+
+impl Scenario {
+    /// Physical thickness of the gate stack, nm.
+    pub fn stack_thickness_nm(&self) -> f64 {
+        self.stack.iter().map(|l| l.thickness_nm).sum()
+    }
+
+    /// Equivalent oxide thickness, nm: 3.9 sum(t_i / eps_i).
+    pub fn eot_nm(&self) -> f64 {
+        crate::physics::EPS_SIO2 * self.stack.iter().map(|l| l.thickness_nm / l.eps_r).sum::<f64>()
+    }
+
+    /// Gate oxide capacitance per area, F/cm^2 (series stack).
+    pub fn cox_f_per_cm2(&self) -> f64 {
+        crate::physics::EPS0_F_PER_M * 1e-2 * crate::physics::EPS_SIO2 / (self.eot_nm() * 1e-7)
+    }
+}

@@ -1,0 +1,150 @@
+//! Figures from I_D-V_G curves and potentials (MODEL.md section 5).
+
+use crate::discretize::Problem;
+
+/// Why a figure could not be extracted.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+pub enum ExtractError {
+    #[error("the gate sweep does not reach the threshold current {target_a_per_um:.3e} A/um ({detail}); {suggestion}")]
+    NotBracketed { target_a_per_um: f64, detail: String, suggestion: String },
+    #[error("the SS window (1e-3 to 1e-1 of the threshold current) is not inside the gate sweep ({detail}); {suggestion}")]
+    WindowNotBracketed { detail: String, suggestion: String },
+    #[error("only {0} bias points fall in the SS window; use a smaller bias.vgs_step_V")]
+    TooFewPoints(usize),
+    #[error("bias point V_G = {vgs_v:.4} V at V_DS = {vds_v} V did not converge: {reason}")]
+    NotConverged { vgs_v: f64, vds_v: f64, reason: String },
+}
+
+/// A transfer curve in sweep order, from the off end toward the on end.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Curve<'a> {
+    pub vgs_v: &'a [f64],
+    /// |I_D| per width, A/um.
+    pub id_abs: &'a [f64],
+}
+
+/// Threshold voltage where |I_D| first reaches `target` (A/um), interpolating
+/// log10 |I_D| linearly between bias points. Never extrapolates.
+pub fn threshold(c: &Curve, target: f64) -> Result<f64, ExtractError> {
+    let (v, i) = (c.vgs_v, c.id_abs);
+    if i[0] >= target {
+        return Err(ExtractError::NotBracketed {
+            target_a_per_um: target,
+            detail: format!("already {:.3e} A/um at the first gate voltage {:.3} V", i[0], v[0]),
+            suggestion: format!("start the sweep further toward off than {:.3} V", v[0]),
+        });
+    }
+    for k in 1..v.len() {
+        if i[k] >= target {
+            let (l0, l1, lt) = (i[k - 1].log10(), i[k].log10(), target.log10());
+            return Ok(v[k - 1] + (v[k] - v[k - 1]) * (lt - l0) / (l1 - l0));
+        }
+    }
+    Err(ExtractError::NotBracketed {
+        target_a_per_um: target,
+        detail: format!("only {:.3e} A/um at the last gate voltage {:.3} V", i[v.len() - 1], v[v.len() - 1]),
+        suggestion: format!("extend the sweep beyond {:.3} V", v[v.len() - 1]),
+    })
+}
+
+/// Subthreshold swing, mV/decade: inverse slope of a least-squares line of
+/// log10 |I_D| against V_G over the points with |I_D| in [1e-3, 1e-1] x target.
+pub fn swing(c: &Curve, target: f64) -> Result<f64, ExtractError> {
+    let (lo, hi) = (1e-3 * target, 1e-1 * target);
+    let (v, i) = (c.vgs_v, c.id_abs);
+    if i[0] > lo {
+        return Err(ExtractError::WindowNotBracketed {
+            detail: format!("{:.3e} A/um at the first gate voltage {:.3} V is above {:.3e}", i[0], v[0], lo),
+            suggestion: format!("start the sweep further toward off than {:.3} V", v[0]),
+        });
+    }
+    if i.iter().all(|&x| x < hi) {
+        return Err(ExtractError::WindowNotBracketed {
+            detail: format!("the current never reaches {hi:.3e} A/um"),
+            suggestion: format!("extend the sweep beyond {:.3} V", v[v.len() - 1]),
+        });
+    }
+    let pts: Vec<(f64, f64)> = v.iter().zip(i).filter(|(_, &x)| x >= lo && x <= hi).map(|(&a, &b)| (a, b.log10())).collect();
+    if pts.len() < 3 {
+        return Err(ExtractError::TooFewPoints(pts.len()));
+    }
+    let n = pts.len() as f64;
+    let mx = pts.iter().map(|p| p.0).sum::<f64>() / n;
+    let my = pts.iter().map(|p| p.1).sum::<f64>() / n;
+    let sxy: f64 = pts.iter().map(|p| (p.0 - mx) * (p.1 - my)).sum();
+    let sxx: f64 = pts.iter().map(|p| (p.0 - mx).powi(2)).sum();
+    Ok(1000.0 / (sxy / sxx).abs())
+}
+
+/// DIBL, mV/V: (V_t,lin - V_t,sat) / (V_DS,sat - V_DS,lin).
+pub fn dibl(vt_lin: f64, vt_sat: f64, vds_lin: f64, vds_sat: f64) -> f64 {
+    1000.0 * (vt_lin - vt_sat) / (vds_sat - vds_lin)
+}
+
+/// The leakiest path's barrier.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Barrier {
+    /// Band edge of the channel carrier relative to the source Fermi level, eV.
+    pub height_ev: f64,
+    /// Depth of that row below the top silicon surface, nm.
+    pub depth_nm: f64,
+    /// Position of the barrier's top along the channel, nm.
+    pub x_nm: f64,
+}
+
+/// Channel-carrier band edge relative to the source Fermi level at potential
+/// `psi` (midgap approximation): E_g/2 - s psi (s = +1 electrons, -1 holes).
+pub fn band_edge_ev(p: &Problem, psi: f64, sign: f64) -> f64 {
+    0.5 * p.silicon.eg_ev - sign * psi
+}
+
+/// For each semiconductor row the barrier is the maximum band edge over x;
+/// the device barrier is the lowest of these (the leakiest path).
+pub fn barrier(p: &Problem, psi: &[f64], sign: f64) -> Barrier {
+    let mut best = Barrier { height_ev: f64::INFINITY, depth_nm: 0.0, x_nm: 0.0 };
+    for j in 0..p.ny {
+        let mut top = f64::NEG_INFINITY;
+        let mut x_top = 0.0;
+        let mut any = false;
+        for i in 0..p.nx {
+            let k = i + j * p.nx;
+            if p.semi_area[k] > 0.0 {
+                any = true;
+                let e = band_edge_ev(p, psi[k], sign);
+                if e > top {
+                    top = e;
+                    x_top = p.x.nodes[i];
+                }
+            }
+        }
+        if any && top < best.height_ev {
+            best = Barrier { height_ev: top, depth_nm: p.y.nodes[j], x_nm: x_top };
+        }
+    }
+    best
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn threshold_and_swing_on_an_exact_exponential() {
+        // I = 1e-12 * 10^((V - 0)/0.07): SS = 70 mV/dec, I = 1e-7 at V = 0.35.
+        let v: Vec<f64> = (0..60).map(|k| -0.2 + 0.02 * k as f64).collect();
+        let i: Vec<f64> = v.iter().map(|x| 1e-12 * 10f64.powf(x / 0.07)).collect();
+        let c = Curve { vgs_v: &v, id_abs: &i };
+        assert!((threshold(&c, 1e-7).unwrap() - 0.35).abs() < 1e-12);
+        assert!((swing(&c, 1e-7).unwrap() - 70.0).abs() < 1e-9);
+        assert!(threshold(&c, 1e3).is_err());
+        let c2 = Curve { vgs_v: &v[30..], id_abs: &i[30..] };
+        assert!(matches!(swing(&c2, 1e-7), Err(ExtractError::WindowNotBracketed { .. })));
+    }
+
+    #[test]
+    fn dibl_sign_convention() {
+        assert!((dibl(0.30, 0.25, 0.05, 0.8) - 66.666666).abs() < 1e-3);
+        // p-channel: both voltages negative, DIBL positive.
+        assert!((dibl(-0.30, -0.25, -0.05, -0.8) - 66.666666).abs() < 1e-3);
+    }
+}

@@ -1,0 +1,188 @@
+//! The 1D long-channel reference (MODEL.md section 5): the mid-channel column
+//! solved with a uniform channel-carrier quasi-Fermi level V gives the sheet
+//! density N_s(V_G, V); a long device carries (gradual channel, Pao and Sah,
+//! Solid-State Electronics 9, 927, 1966)
+//! `I_D L / W = q mu int_0^{V_DS} N_s(V_G, V) dV`,
+//! and V_t,long solves `I_D L / W = I_cc` at V_DS,lin.
+
+use crate::device::Scenario;
+use crate::discretize::Problem;
+use crate::physics::{CM2_TO_NM2, Q_C};
+use crate::solve::{apply_boundaries, neutral_guess, NewtonOptions, PoissonSolver, QuasiFermi, SolveError};
+use crate::structure::{long_channel_column, BACK_PLANE, GATE};
+
+/// Gauss-Legendre nodes and weights on [-1, 1], 8 points.
+const GL8: [(f64, f64); 8] = [
+    (-0.960_289_856_497_536_3, 0.101_228_536_290_376_26),
+    (-0.796_666_477_413_626_7, 0.222_381_034_453_374_47),
+    (-0.525_532_409_916_329_0, 0.313_706_645_877_887_3),
+    (-0.183_434_642_495_649_8, 0.362_683_783_378_362_0),
+    (0.183_434_642_495_649_8, 0.362_683_783_378_362_0),
+    (0.525_532_409_916_329_0, 0.313_706_645_877_887_3),
+    (0.796_666_477_413_626_7, 0.222_381_034_453_374_47),
+    (0.960_289_856_497_536_3, 0.101_228_536_290_376_26),
+];
+
+/// The long-channel column and its solver.
+pub struct Column {
+    pub problem: Problem,
+    solver: PoissonSolver,
+    psi: Vec<f64>,
+    sign: f64,
+    wf: f64,
+    back_wf: f64,
+    back_bias: f64,
+    mobility: f64,
+    opts: NewtonOptions,
+    /// Newton steps so far.
+    pub steps: usize,
+}
+
+/// Long-channel figures.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct LongChannel {
+    /// Threshold voltage at V_DS,lin, V.
+    pub vt_v: f64,
+    /// Subthreshold swing in the middle of the SS window at V_DS,lin, mV/dec.
+    pub ss_mv_per_dec: f64,
+}
+
+/// Failure of the long-channel reference.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+pub enum LongChannelError {
+    #[error(transparent)]
+    Solve(#[from] SolveError),
+    #[error("the 1D column did not converge at V_G = {vgs_v:.4} V, V = {v:.4} V: {reason}")]
+    NotConverged { vgs_v: f64, v: f64, reason: String },
+    #[error("the long-channel current does not reach the criterion within the gate sweep {0:.3} to {1:.3} V; widen bias.vgs_start_V/vgs_stop_V")]
+    NotBracketed(f64, f64),
+}
+
+impl Column {
+    pub fn new(s: &Scenario) -> Result<Self, SolveError> {
+        let problem = long_channel_column(s);
+        let solver = PoissonSolver::new(&problem)?;
+        let qf = QuasiFermi::uniform(problem.nx, 0.0, 0.0);
+        let psi = neutral_guess(&problem, &qf);
+        Ok(Column {
+            opts: NewtonOptions::for_vt(problem.silicon.vt),
+            problem,
+            solver,
+            psi,
+            sign: s.polarity.sign(),
+            wf: s.gate.workfunction_ev,
+            back_wf: s.gate.back_workfunction_ev,
+            back_bias: s.gate.back_bias_v,
+            mobility: s.extraction.mobility_cm2_per_vs,
+            steps: 0,
+        })
+    }
+
+    /// Solves at gate voltage `vgs` with the channel carrier's quasi-Fermi level at `v`; returns
+    /// the channel-carrier sheet density, nm^-2, and leaves the potential in `self.psi`.
+    pub fn sheet_density(&mut self, vgs: f64, v: f64) -> Result<f64, LongChannelError> {
+        let p = &self.problem;
+        let si = p.silicon;
+        let electrodes = [si.electrode_potential(vgs, self.wf), si.electrode_potential(self.back_bias, self.back_wf)];
+        debug_assert!(GATE == 0 && BACK_PLANE == 1);
+        apply_boundaries(p, &mut self.psi, &electrodes, &[0.0, 0.0, 0.0]);
+        let qf = if self.sign > 0.0 {
+            QuasiFermi::uniform(p.nx, v, 0.0)
+        } else {
+            QuasiFermi::uniform(p.nx, 0.0, v)
+        };
+        let rep = self.solver.solve(p, &mut self.psi, &qf, &self.opts)?;
+        self.steps += rep.steps;
+        if !rep.converged {
+            return Err(LongChannelError::NotConverged { vgs_v: vgs, v, reason: rep.reason });
+        }
+        let s = self.sign;
+        let vt = si.vt;
+        Ok(p.column_integral(&self.psi, 0, |x| si.ni * (s * (x - v) / vt).exp()))
+    }
+
+    /// Potential of the last solve, V (nodes of [`Column::problem`]).
+    pub fn potential(&self) -> &[f64] {
+        &self.psi
+    }
+
+    /// Long-channel I_D L / W (A) at gate voltage `vgs` and drain bias `vds`.
+    pub fn current_l_over_w(&mut self, vgs: f64, vds: f64) -> Result<f64, LongChannelError> {
+        let half = 0.5 * vds;
+        let mut sum = 0.0;
+        for (t, w) in GL8 {
+            sum += w * self.sheet_density(vgs, half * (1.0 + t))?;
+        }
+        // |int_0^vds N dV| = |half| * sum
+        Ok(Q_C * self.mobility * CM2_TO_NM2 * half.abs() * sum)
+    }
+}
+
+/// V_t,long and the long-channel SS for the scenario (at V_DS,lin).
+pub fn long_channel(s: &Scenario) -> Result<(LongChannel, usize), LongChannelError> {
+    let mut col = Column::new(s)?;
+    let b = &s.bias;
+    let sign = s.polarity.sign();
+    let target = s.extraction.current_criterion_a;
+    let vds = b.vds_lin_v;
+    // Gate voltages from the off end toward the on end.
+    let mut grid = b.gate_voltages();
+    if sign < 0.0 {
+        grid.reverse();
+    }
+    let log_i = |col: &mut Column, vg: f64| -> Result<f64, LongChannelError> { Ok(col.current_l_over_w(vg, vds)?.log10()) };
+    let lt = target.log10();
+    let mut prev: Option<(f64, f64)> = None;
+    let mut bracket = None;
+    for &vg in &grid {
+        let li = log_i(&mut col, vg)?;
+        if li >= lt {
+            bracket = prev.map(|p| (p, (vg, li)));
+            break;
+        }
+        prev = Some((vg, li));
+    }
+    let ((mut va, mut la), (mut vb, mut lb)) =
+        bracket.ok_or(LongChannelError::NotBracketed(b.vgs_start_v, b.vgs_stop_v))?;
+    // Illinois false position on log10 I (monotone in V_G).
+    let mut side = 0i32;
+    let mut vt = va;
+    for _ in 0..60 {
+        vt = vb - (lb - lt) * (vb - va) / (lb - la);
+        let lv = log_i(&mut col, vt)?;
+        if (lv - lt).abs() < 1e-10 || (vb - va).abs() < 1e-9 {
+            break;
+        }
+        if (lv - lt) * (lb - lt) > 0.0 {
+            vb = vt;
+            lb = lv;
+            if side == 1 {
+                la = lt + 0.5 * (la - lt);
+            }
+            side = 1;
+        } else {
+            va = vt;
+            la = lv;
+            if side == -1 {
+                lb = lt + 0.5 * (lb - lt);
+            }
+            side = -1;
+        }
+    }
+    // SS at the middle of the SS window (1e-2 of the criterion): about 2 decades below V_t.
+    let mut v_mid = vt - sign * 0.12;
+    for _ in 0..30 {
+        let d = 1e-3 * sign;
+        let l0 = log_i(&mut col, v_mid)?;
+        let slope = (log_i(&mut col, v_mid + d)? - l0) / d;
+        let step = (lt - 2.0 - l0) / slope;
+        v_mid += step;
+        if step.abs() < 1e-6 {
+            break;
+        }
+    }
+    let h = 2e-3;
+    let slope = (log_i(&mut col, v_mid + h)? - log_i(&mut col, v_mid - h)?) / (2.0 * h);
+    let steps = col.steps;
+    Ok((LongChannel { vt_v: vt, ss_mv_per_dec: 1000.0 / slope.abs() }, steps))
+}

@@ -1,0 +1,335 @@
+//! Newton's method on the discretised nonlinear Poisson equation, with a
+//! sparse Cholesky factorisation whose ordering and symbolic analysis are done
+//! once per mesh and reused by every Newton step and bias point.
+//!
+//! The Jacobian `-dF/dpsi` is symmetric positive definite: the off-diagonal
+//! couplings are constant on a mesh (assembled once); only the diagonal
+//! (carrier terms) changes between steps.
+
+use faer::dyn_stack::{MemBuffer, MemStack};
+use faer::linalg::cholesky::llt::factor::LltRegularization;
+use faer::sparse::linalg::cholesky::{
+    factorize_symbolic_cholesky, CholeskySymbolicParams, SymbolicCholesky, SymmetricOrdering,
+};
+use faer::sparse::{SparseColMatRef, SymbolicSparseColMatRef};
+use faer::{Conj, MatMut, Par, Side};
+
+use crate::discretize::{NodeKind, Problem};
+
+const NONE: usize = usize::MAX;
+
+/// Why a solve failed or stopped.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+pub enum SolveError {
+    #[error("the Jacobian is not positive definite (factorisation failed): {0}")]
+    Factorisation(String),
+    #[error("symbolic analysis failed: {0}")]
+    Symbolic(String),
+    #[error("a non-finite potential appeared at node {node} (x = {x_nm:.3} nm, y = {y_nm:.3} nm)")]
+    NonFinite { node: usize, x_nm: f64, y_nm: f64 },
+}
+
+/// Electron and hole quasi-Fermi levels (V), one value per mesh column (x index).
+#[derive(Debug, Clone, PartialEq)]
+pub struct QuasiFermi {
+    pub phi_n: Vec<f64>,
+    pub phi_p: Vec<f64>,
+}
+
+impl QuasiFermi {
+    /// Both levels uniform.
+    pub fn uniform(nx: usize, phi_n: f64, phi_p: f64) -> Self {
+        QuasiFermi { phi_n: vec![phi_n; nx], phi_p: vec![phi_p; nx] }
+    }
+}
+
+/// Result of one Newton step.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct StepStats {
+    /// Largest |update| before damping, V.
+    pub max_update_v: f64,
+    /// Largest residual divided by its Jacobian diagonal, V (before the step).
+    pub max_scaled_residual_v: f64,
+}
+
+/// What a nonlinear solve did.
+#[derive(Debug, Clone, PartialEq, serde::Serialize)]
+pub struct SolveReport {
+    pub converged: bool,
+    pub steps: usize,
+    pub final_update_v: f64,
+    pub final_residual_v: f64,
+    /// Why it stopped, in words.
+    pub reason: String,
+}
+
+/// Convergence settings (MODEL.md section 3).
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct NewtonOptions {
+    /// Stop when the update is below this (V).
+    pub update_tol_v: f64,
+    /// ... and the scaled residual is below this (V).
+    pub residual_tol_v: f64,
+    /// Largest update applied to one node in one step (V).
+    pub clamp_v: f64,
+    pub max_steps: usize,
+}
+
+impl NewtonOptions {
+    /// Defaults for thermal voltage `vt`: update below 1e-6 V_T, steps clamped at 4 V_T.
+    pub fn for_vt(vt: f64) -> Self {
+        NewtonOptions { update_tol_v: 1e-6 * vt, residual_tol_v: 1e-6 * vt, clamp_v: 4.0 * vt, max_steps: 200 }
+    }
+}
+
+/// Matrix pattern, symbolic factorisation and workspace for one mesh.
+pub struct PoissonSolver {
+    n: usize,
+    unknown_of: Vec<usize>,
+    node_of: Vec<usize>,
+    col_ptr: Vec<usize>,
+    row_idx: Vec<usize>,
+    values: Vec<f64>,
+    diag_pos: Vec<usize>,
+    symbolic: std::sync::Arc<SymbolicCholesky<usize>>,
+    l_values: Vec<f64>,
+    fmem: MemBuffer,
+    smem: MemBuffer,
+    rhs: Vec<f64>,
+    /// Numeric factorisations done so far.
+    pub factorisations: usize,
+}
+
+impl Clone for PoissonSolver {
+    fn clone(&self) -> Self {
+        PoissonSolver::with_symbolic(self.pattern_parts(), self.symbolic.clone())
+    }
+}
+
+struct Pattern {
+    n: usize,
+    unknown_of: Vec<usize>,
+    node_of: Vec<usize>,
+    col_ptr: Vec<usize>,
+    row_idx: Vec<usize>,
+    values: Vec<f64>,
+    diag_pos: Vec<usize>,
+}
+
+impl PoissonSolver {
+    fn pattern_parts(&self) -> Pattern {
+        Pattern {
+            n: self.n,
+            unknown_of: self.unknown_of.clone(),
+            node_of: self.node_of.clone(),
+            col_ptr: self.col_ptr.clone(),
+            row_idx: self.row_idx.clone(),
+            values: self.values.clone(),
+            diag_pos: self.diag_pos.clone(),
+        }
+    }
+
+    fn pattern(p: &Problem) -> Pattern {
+        let nx = p.nx;
+        let mut unknown_of = vec![NONE; p.node_count()];
+        let mut node_of = Vec::new();
+        for (k, kind) in p.nodes.iter().enumerate() {
+            if *kind == NodeKind::Free {
+                unknown_of[k] = node_of.len();
+                node_of.push(k);
+            }
+        }
+        let n = node_of.len();
+        let mut col_ptr = Vec::with_capacity(n + 1);
+        let mut row_idx = Vec::with_capacity(5 * n);
+        let mut values = Vec::with_capacity(5 * n);
+        let mut diag_pos = Vec::with_capacity(n);
+        col_ptr.push(0);
+        for &k in &node_of {
+            let (i, j) = (k % nx, k / nx);
+            // Neighbours in increasing node (hence unknown) order.
+            let push = |nb: usize, c: f64, row_idx: &mut Vec<usize>, values: &mut Vec<f64>| {
+                let u = unknown_of[nb];
+                if u != NONE {
+                    row_idx.push(u);
+                    values.push(-c);
+                }
+            };
+            if j > 0 {
+                push(k - nx, p.coef_y[i + (j - 1) * nx], &mut row_idx, &mut values);
+            }
+            if i > 0 {
+                push(k - 1, p.coef_x[i - 1 + j * (nx - 1)], &mut row_idx, &mut values);
+            }
+            diag_pos.push(row_idx.len());
+            row_idx.push(unknown_of[k]);
+            values.push(0.0);
+            if i + 1 < nx {
+                push(k + 1, p.coef_x[i + j * (nx - 1)], &mut row_idx, &mut values);
+            }
+            if j + 1 < p.ny {
+                push(k + nx, p.coef_y[i + j * nx], &mut row_idx, &mut values);
+            }
+            col_ptr.push(row_idx.len());
+        }
+        Pattern { n, unknown_of, node_of, col_ptr, row_idx, values, diag_pos }
+    }
+
+    /// Orders and analyses the Jacobian's pattern for this mesh (done once).
+    pub fn new(p: &Problem) -> Result<Self, SolveError> {
+        let pat = Self::pattern(p);
+        let sym = SymbolicSparseColMatRef::new_checked(pat.n, pat.n, &pat.col_ptr, None, &pat.row_idx);
+        let symbolic = factorize_symbolic_cholesky(
+            sym,
+            Side::Lower,
+            SymmetricOrdering::Amd,
+            CholeskySymbolicParams::default(),
+        )
+        .map_err(|e| SolveError::Symbolic(format!("{e:?}")))?;
+        Ok(Self::with_symbolic(pat, std::sync::Arc::new(symbolic)))
+    }
+
+    fn with_symbolic(pat: Pattern, symbolic: std::sync::Arc<SymbolicCholesky<usize>>) -> Self {
+        let par = Par::Seq;
+        let l_values = vec![0.0; symbolic.len_val()];
+        let fmem = MemBuffer::new(symbolic.factorize_numeric_llt_scratch::<f64>(par, Default::default()));
+        let smem = MemBuffer::new(symbolic.solve_in_place_scratch::<f64>(1, par));
+        PoissonSolver {
+            n: pat.n,
+            rhs: vec![0.0; pat.n],
+            unknown_of: pat.unknown_of,
+            node_of: pat.node_of,
+            col_ptr: pat.col_ptr,
+            row_idx: pat.row_idx,
+            values: pat.values,
+            diag_pos: pat.diag_pos,
+            symbolic,
+            l_values,
+            fmem,
+            smem,
+            factorisations: 0,
+        }
+    }
+
+    /// Number of unknowns.
+    pub fn unknowns(&self) -> usize {
+        self.n
+    }
+
+    /// Fills `rhs` with the residual F and the diagonal of -dF/dpsi; returns the
+    /// largest scaled residual |F|/diag (V).
+    fn assemble(&mut self, p: &Problem, psi: &[f64], qf: &QuasiFermi) -> f64 {
+        let nx = p.nx;
+        let mut worst: f64 = 0.0;
+        for u in 0..self.n {
+            let k = self.node_of[u];
+            let i = k % nx;
+            let (f, d) = p.residual(psi, i, k / nx, qf.phi_n[i], qf.phi_p[i]);
+            self.rhs[u] = f;
+            self.values[self.diag_pos[u]] = d;
+            worst = worst.max((f / d).abs());
+        }
+        worst
+    }
+
+    /// One damped Newton step: psi += clamp(J^-1 F).
+    pub fn newton_step(
+        &mut self,
+        p: &Problem,
+        psi: &mut [f64],
+        qf: &QuasiFermi,
+        clamp_v: f64,
+    ) -> Result<StepStats, SolveError> {
+        let residual = self.assemble(p, psi, qf);
+        let par = Par::Seq;
+        let a = SparseColMatRef::new(
+            SymbolicSparseColMatRef::new_checked(self.n, self.n, &self.col_ptr, None, &self.row_idx),
+            &self.values,
+        );
+        let llt = self
+            .symbolic
+            .factorize_numeric_llt::<f64>(
+                &mut self.l_values,
+                a,
+                Side::Lower,
+                LltRegularization::default(),
+                par,
+                MemStack::new(&mut self.fmem),
+                Default::default(),
+            )
+            .map_err(|e| SolveError::Factorisation(format!("{e:?}")))?;
+        self.factorisations += 1;
+        let x = MatMut::from_column_major_slice_mut(&mut self.rhs, self.n, 1);
+        llt.solve_in_place_with_conj(Conj::No, x, par, MemStack::new(&mut self.smem));
+        let mut max_update: f64 = 0.0;
+        for u in 0..self.n {
+            let d = self.rhs[u];
+            let k = self.node_of[u];
+            if !d.is_finite() {
+                return Err(SolveError::NonFinite { node: k, x_nm: p.x.nodes[k % p.nx], y_nm: p.y.nodes[k / p.nx] });
+            }
+            max_update = max_update.max(d.abs());
+            psi[k] += d.clamp(-clamp_v, clamp_v);
+        }
+        Ok(StepStats { max_update_v: max_update, max_scaled_residual_v: residual })
+    }
+
+    /// Newton iteration with fixed quasi-Fermi levels until converged or out of steps.
+    pub fn solve(
+        &mut self,
+        p: &Problem,
+        psi: &mut [f64],
+        qf: &QuasiFermi,
+        opts: &NewtonOptions,
+    ) -> Result<SolveReport, SolveError> {
+        let mut last = StepStats { max_update_v: f64::INFINITY, max_scaled_residual_v: f64::INFINITY };
+        for step in 1..=opts.max_steps {
+            last = self.newton_step(p, psi, qf, opts.clamp_v)?;
+            if last.max_update_v < opts.update_tol_v && last.max_scaled_residual_v < opts.residual_tol_v {
+                return Ok(SolveReport {
+                    converged: true,
+                    steps: step,
+                    final_update_v: last.max_update_v,
+                    final_residual_v: last.max_scaled_residual_v,
+                    reason: "update and residual below tolerance".into(),
+                });
+            }
+        }
+        Ok(SolveReport {
+            converged: false,
+            steps: opts.max_steps,
+            final_update_v: last.max_update_v,
+            final_residual_v: last.max_scaled_residual_v,
+            reason: format!(
+                "no convergence in {} Newton steps (last update {:.3e} V, tolerance {:.1e} V)",
+                opts.max_steps, last.max_update_v, opts.update_tol_v
+            ),
+        })
+    }
+}
+
+/// Sets every Dirichlet node of `psi`: electrodes from `electrode_v[e]`,
+/// ohmic contacts at neutrality with quasi-Fermi level `contact_v[c]`.
+pub fn apply_boundaries(p: &Problem, psi: &mut [f64], electrode_v: &[f64], contact_v: &[f64]) {
+    for (k, kind) in p.nodes.iter().enumerate() {
+        match *kind {
+            NodeKind::Electrode(e) => psi[k] = electrode_v[e],
+            NodeKind::Contact(c) => psi[k] = p.silicon.ohmic_potential(contact_v[c], p.net_doping[k]),
+            NodeKind::Free => {}
+        }
+    }
+}
+
+/// A starting potential: local charge neutrality in the semiconductor
+/// (quasi-Fermi levels of the node's column), zero in insulators.
+pub fn neutral_guess(p: &Problem, qf: &QuasiFermi) -> Vec<f64> {
+    let mut psi = vec![0.0; p.node_count()];
+    for (k, v) in psi.iter_mut().enumerate() {
+        if p.semi_area[k] > 0.0 {
+            let i = k % p.nx;
+            let mid = 0.5 * (qf.phi_n[i] + qf.phi_p[i]);
+            *v = p.silicon.ohmic_potential(mid, p.net_doping[k]);
+        }
+    }
+    psi
+}

@@ -1,0 +1,337 @@
+//! From a [`Scenario`] to discretised structures: the along-channel cross-section
+//! of planar devices (DEVICE-FORMAT.md geometry) and the 1D long-channel column.
+//!
+//! Coordinates: x from the source contact to the drain contact, y downward from
+//! the top silicon surface, nm. Electrode 0 is the gate (both gates of a double
+//! gate), electrode 1 the thin-body back plane. Contact 0 is the source,
+//! 1 the drain, 2 the bulk substrate.
+
+use crate::device::{Architecture, Scenario};
+use crate::discretize::{CellKind, Problem};
+use crate::mesh::{graded_line, Line};
+use crate::physics::{Silicon, PER_CM3_TO_PER_NM3};
+
+/// Electrode numbers.
+pub const GATE: usize = 0;
+pub const BACK_PLANE: usize = 1;
+/// Contact numbers.
+pub const SOURCE: usize = 0;
+pub const DRAIN: usize = 1;
+pub const SUBSTRATE: usize = 2;
+
+/// Finest step at a silicon/dielectric interface, nm (inversion layer ~1 nm; common practice).
+pub const FINE_INTERFACE_NM: f64 = 0.1;
+/// Finest step at junctions and gate edges, nm.
+pub const FINE_JUNCTION_NM: f64 = 0.2;
+/// Finest step at other refined points (gate electrode corners, well bottoms), nm.
+pub const FINE_OTHER_NM: f64 = 0.25;
+/// Thickness of the metal slab standing for the thin-body back plane, nm.
+const BACK_PLANE_SLAB_NM: f64 = 1.0;
+
+/// Average over [x0, x1] of a profile equal to 1 for x <= edge that falls a
+/// decade per `grad` nm beyond it (0 beyond it when `grad` == 0).
+pub fn step_tail_avg(x0: f64, x1: f64, edge: f64, grad: f64) -> f64 {
+    let w = x1 - x0;
+    if w <= 0.0 {
+        return if x0 <= edge { 1.0 } else if grad > 0.0 { 10f64.powf(-(x0 - edge) / grad) } else { 0.0 };
+    }
+    let flat = (x1.min(edge) - x0).max(0.0);
+    let tail = if grad > 0.0 && x1 > edge {
+        let a = x0.max(edge);
+        let c = grad / std::f64::consts::LN_10;
+        c * (10f64.powf(-(a - edge) / grad) - 10f64.powf(-(x1 - edge) / grad))
+    } else {
+        0.0
+    };
+    (flat + tail) / w
+}
+
+/// Doping of a planar device: net N_D - N_A (for n; mirrored for p) averaged over rectangles, nm^-3.
+#[derive(Debug, Clone, Copy)]
+pub struct DopingProfile {
+    /// Source/drain density, nm^-3.
+    pub nsd: f64,
+    /// Channel density, nm^-3.
+    pub nch: f64,
+    pub source_edge: f64,
+    pub drain_edge: f64,
+    pub grad: f64,
+    /// Bulk well depth (None: wells through the whole film).
+    pub well_depth: Option<f64>,
+    pub sign: f64,
+}
+
+impl DopingProfile {
+    pub fn of(s: &Scenario) -> Self {
+        let g = &s.geometry;
+        let d = &s.doping;
+        DopingProfile {
+            nsd: d.source_drain_cm3 * PER_CM3_TO_PER_NM3,
+            nch: d.channel_cm3 * PER_CM3_TO_PER_NM3,
+            source_edge: g.source_drain_length_nm + d.junction_offset_nm,
+            drain_edge: g.source_drain_length_nm + g.gate_length_nm - d.junction_offset_nm,
+            grad: d.junction_gradient_nm_per_decade,
+            well_depth: (s.architecture == Architecture::Bulk).then_some(g.junction_depth_nm),
+            sign: s.polarity.sign(),
+        }
+    }
+
+    /// Source/drain dopant density averaged over the rectangle, nm^-3.
+    pub fn sd_avg(&self, x0: f64, x1: f64, y0: f64, y1: f64) -> f64 {
+        let lateral = step_tail_avg(x0, x1, self.source_edge, self.grad)
+            + step_tail_avg(-x1, -x0, -self.drain_edge, self.grad);
+        let vertical = self.well_depth.map_or(1.0, |xj| step_tail_avg(y0, y1, xj, self.grad));
+        self.nsd * lateral * vertical
+    }
+
+    /// Net doping averaged over the rectangle (positive: n-type), nm^-3.
+    pub fn net_avg(&self, x0: f64, x1: f64, y0: f64, y1: f64) -> f64 {
+        self.sign * (self.sd_avg(x0, x1, y0, y1) - self.nch)
+    }
+
+    /// Metallurgical channel length at the surface: distance between the
+    /// points where the source/drain density equals the channel density
+    /// (or n_i for an undoped channel), nm.
+    pub fn metallurgical_length(&self, ni: f64) -> f64 {
+        let target = self.nch.max(ni);
+        let f = |x: f64| self.sd_avg(x, x, 0.0, 0.0) - target;
+        if self.grad == 0.0 {
+            return self.drain_edge - self.source_edge;
+        }
+        // Source side: f decreasing from the edge; bisection between the edge and mid-channel.
+        let mid = 0.5 * (self.source_edge + self.drain_edge);
+        if f(mid) >= 0.0 {
+            return 0.0; // the junctions merge: no channel of the channel type
+        }
+        let (mut a, mut b) = (self.source_edge, mid);
+        for _ in 0..200 {
+            let m = 0.5 * (a + b);
+            if f(m) > 0.0 {
+                a = m
+            } else {
+                b = m
+            }
+        }
+        let xs = 0.5 * (a + b);
+        // Symmetric device: the drain point mirrors the source point.
+        (self.drain_edge + self.source_edge) - 2.0 * xs
+    }
+}
+
+/// The along-channel structure of a planar device.
+#[derive(Debug, Clone)]
+pub struct AlongChannel {
+    pub problem: Problem,
+    /// Gate electrode from `gate_start_nm` to `gate_end_nm` in x.
+    pub gate_start_nm: f64,
+    pub gate_end_nm: f64,
+    /// Silicon from y = 0 to `silicon_bottom_nm`.
+    pub silicon_bottom_nm: f64,
+    pub doping: DopingProfile,
+}
+
+struct VerticalLayout {
+    /// (y0, y1, kind) bands under the gate, top to bottom; `None` kind = silicon.
+    hard: Vec<f64>,
+    fine: Vec<(f64, f64)>,
+}
+
+fn stack_layers_down(s: &Scenario, from: f64, down: bool) -> Vec<(f64, f64, f64)> {
+    // (y_start, y_end, eps) with y_start < y_end, from the channel outward.
+    let mut out = Vec::new();
+    let mut y = from;
+    for l in &s.stack {
+        let y2 = if down { y + l.thickness_nm } else { y - l.thickness_nm };
+        out.push((y.min(y2), y.max(y2), l.eps_r));
+        y = y2;
+    }
+    out
+}
+
+fn vertical_layout(s: &Scenario) -> VerticalLayout {
+    let g = &s.geometry;
+    let t = s.stack_thickness_nm();
+    let mut hard = vec![-(t + g.gate_height_nm), -t, 0.0];
+    let mut fine = vec![(0.0, FINE_INTERFACE_NM), (-t, FINE_OTHER_NM)];
+    for (y0, _, _) in stack_layers_down(s, 0.0, false) {
+        hard.push(y0);
+    }
+    let tsi = g.body_thickness_nm;
+    match s.architecture {
+        Architecture::DoubleGate => {
+            hard.push(tsi);
+            fine.push((tsi, FINE_INTERFACE_NM));
+            for (_, y1, _) in stack_layers_down(s, tsi, true) {
+                hard.push(y1);
+            }
+            fine.push((tsi + t, FINE_OTHER_NM));
+            hard.push(tsi + t + g.gate_height_nm);
+        }
+        Architecture::ThinBody => {
+            hard.push(tsi);
+            fine.push((tsi, FINE_INTERFACE_NM));
+            hard.push(tsi + g.box_thickness_nm);
+            hard.push(tsi + g.box_thickness_nm + BACK_PLANE_SLAB_NM);
+        }
+        Architecture::Bulk => {
+            hard.push(g.junction_depth_nm);
+            fine.push((g.junction_depth_nm, FINE_JUNCTION_NM));
+            hard.push(g.substrate_depth_nm);
+        }
+        _ => {}
+    }
+    VerticalLayout { hard, fine }
+}
+
+fn lookup(fine: &[(f64, f64)], x: f64) -> Option<f64> {
+    fine.iter().filter(|(p, _)| (p - x).abs() < 1e-9).map(|(_, h)| *h).reduce(f64::min)
+}
+
+/// Mesh lines in y for a planar device's column (shared by the 2D and 1D problems).
+fn y_line(s: &Scenario) -> Line {
+    let v = vertical_layout(s);
+    let r = s.mesh.refinement;
+    graded_line(&v.hard, |y| lookup(&v.fine, y).map(|h| h / r), s.mesh.max_step_nm / r, 2)
+}
+
+/// Material of a planar device at (x, y); `gate` is the x-range of the gate electrode.
+fn planar_material(s: &Scenario, x: f64, y: f64, gate: (f64, f64)) -> CellKind {
+    let g = &s.geometry;
+    let t = s.stack_thickness_nm();
+    let tsi = g.body_thickness_nm;
+    let under_gate = x > gate.0 && x < gate.1;
+    let top_region = |depth_above_si: f64| -> CellKind {
+        // depth_above_si > 0: distance from the silicon surface into the stack/gate side.
+        if !under_gate {
+            return CellKind::Dielectric(g.spacer_eps);
+        }
+        if depth_above_si > t {
+            return CellKind::Metal(GATE);
+        }
+        let mut acc = 0.0;
+        for l in &s.stack {
+            acc += l.thickness_nm;
+            if depth_above_si < acc {
+                return CellKind::Dielectric(l.eps_r);
+            }
+        }
+        CellKind::Metal(GATE)
+    };
+    if y < 0.0 {
+        return top_region(-y);
+    }
+    match s.architecture {
+        Architecture::Bulk => CellKind::Semi,
+        Architecture::DoubleGate => {
+            if y < tsi {
+                CellKind::Semi
+            } else {
+                top_region(y - tsi)
+            }
+        }
+        Architecture::ThinBody => {
+            if y < tsi {
+                CellKind::Semi
+            } else if y < tsi + g.box_thickness_nm {
+                CellKind::Dielectric(g.box_eps)
+            } else {
+                CellKind::Metal(BACK_PLANE)
+            }
+        }
+        _ => CellKind::Semi,
+    }
+}
+
+/// Builds the along-channel structure of a bulk, thin-body or double-gate device.
+pub fn along_channel(s: &Scenario) -> AlongChannel {
+    assert!(s.architecture.is_planar(), "along_channel needs a planar architecture");
+    let g = &s.geometry;
+    let r = s.mesh.refinement;
+    let sd = g.source_drain_length_nm;
+    let l = g.gate_length_nm;
+    let total = 2.0 * sd + l;
+    let doping = DopingProfile::of(s);
+    let mut hard = vec![0.0, sd, sd + l, total];
+    let mut fine = vec![(sd, FINE_JUNCTION_NM), (sd + l, FINE_JUNCTION_NM)];
+    for e in [doping.source_edge, doping.drain_edge] {
+        if e > 1e-6 && e < total - 1e-6 {
+            hard.push(e);
+            fine.push((e, FINE_JUNCTION_NM));
+        }
+    }
+    let x = graded_line(&hard, |p| lookup(&fine, p).map(|h| h / r), s.mesh.max_step_nm / r, 2);
+    let y = y_line(s);
+    let silicon = Silicon::at(s.temperature_k);
+    let nx = x.len();
+    let ny = y.len();
+    let ys = y.nodes.clone();
+    let well = g.junction_depth_nm;
+    let bulk = s.architecture == Architecture::Bulk;
+    let gate = (sd, sd + l);
+    let problem = Problem::new(
+        x,
+        y,
+        silicon,
+        |xc, yc| planar_material(s, xc, yc, gate),
+        |i, j| {
+            if bulk && j == ny - 1 {
+                Some(SUBSTRATE)
+            } else if i == 0 && (!bulk || ys[j] <= well + 1e-9) {
+                Some(SOURCE)
+            } else if i == nx - 1 && (!bulk || ys[j] <= well + 1e-9) {
+                Some(DRAIN)
+            } else {
+                None
+            }
+        },
+        |x0, x1, y0, y1| doping.net_avg(x0, x1, y0, y1),
+    );
+    let silicon_bottom_nm = match s.architecture {
+        Architecture::Bulk => g.substrate_depth_nm,
+        _ => g.body_thickness_nm,
+    };
+    AlongChannel { problem, gate_start_nm: sd, gate_end_nm: sd + l, silicon_bottom_nm, doping }
+}
+
+/// The 1D long-channel column at mid-channel (a one-cell-wide strip with
+/// zero-field sides), channel doping only. Bulk keeps its substrate contact
+/// (contact 2); films float, their carriers set by the quasi-Fermi levels.
+pub fn long_channel_column(s: &Scenario) -> Problem {
+    assert!(s.architecture.is_planar(), "long_channel_column needs a planar architecture");
+    let y = y_line(s);
+    let ny = y.len();
+    let bulk = s.architecture == Architecture::Bulk;
+    let doping = DopingProfile::of(s);
+    let x = Line::uniform(0.0, 1.0, 1);
+    Problem::new(
+        x,
+        y,
+        Silicon::at(s.temperature_k),
+        |_, yc| planar_material(s, 0.5, yc, (0.0, 1.0)),
+        |_, j| (bulk && j == ny - 1).then_some(SUBSTRATE),
+        |_, _, _, _| -doping.sign * doping.nch,
+    )
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn step_tail_average_is_exact() {
+        // Abrupt: a cell straddling the edge gets the mean of the two sides.
+        assert!((step_tail_avg(-1.0, 1.0, 0.0, 0.0) - 0.5).abs() < 1e-15);
+        // Graded: average of 10^(-x/2) over [0, 2] = (2/ln10)(1 - 0.1)/2.
+        let want = (2.0 / std::f64::consts::LN_10) * 0.9 / 2.0;
+        assert!((step_tail_avg(0.0, 2.0, 0.0, 2.0) - want).abs() < 1e-14);
+        // Numerical quadrature check on a straddling interval.
+        let n = 200_000;
+        let (a, b) = (-0.7, 3.1);
+        let mut q = 0.0;
+        for k in 0..n {
+            let x = a + (b - a) * (k as f64 + 0.5) / n as f64;
+            q += if x <= 0.0 { 1.0 } else { 10f64.powf(-x / 1.5) };
+        }
+        assert!((step_tail_avg(a, b, 0.0, 1.5) - q / n as f64).abs() < 1e-9);
+    }
+}
