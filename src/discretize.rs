@@ -148,8 +148,16 @@ impl Problem {
         for j in 0..ny {
             for i in 0..nx - 1 {
                 let (ii, jj) = (i as isize, j as isize);
-                let below = if j > 0 { eps_at(ii, jj - 1) * 0.5 * hy[j - 1] } else { 0.0 };
-                let above = if j < ny - 1 { eps_at(ii, jj) * 0.5 * hy[j] } else { 0.0 };
+                let below = if j > 0 {
+                    eps_at(ii, jj - 1) * 0.5 * hy[j - 1]
+                } else {
+                    0.0
+                };
+                let above = if j < ny - 1 {
+                    eps_at(ii, jj) * 0.5 * hy[j]
+                } else {
+                    0.0
+                };
                 coef_x[i + j * (nx - 1)] = (below + above) / hx[i];
             }
         }
@@ -157,12 +165,32 @@ impl Problem {
         for j in 0..ny - 1 {
             for i in 0..nx {
                 let (ii, jj) = (i as isize, j as isize);
-                let left = if i > 0 { eps_at(ii - 1, jj) * 0.5 * hx[i - 1] } else { 0.0 };
-                let right = if i < nx - 1 { eps_at(ii, jj) * 0.5 * hx[i] } else { 0.0 };
+                let left = if i > 0 {
+                    eps_at(ii - 1, jj) * 0.5 * hx[i - 1]
+                } else {
+                    0.0
+                };
+                let right = if i < nx - 1 {
+                    eps_at(ii, jj) * 0.5 * hx[i]
+                } else {
+                    0.0
+                };
                 coef_y[i + j * nx] = (left + right) / hy[j];
             }
         }
-        Problem { x, y, nx, ny, cells, nodes, semi_area, net_doping, coef_x, coef_y, silicon }
+        Problem {
+            x,
+            y,
+            nx,
+            ny,
+            cells,
+            nodes,
+            semi_area,
+            net_doping,
+            coef_x,
+            coef_y,
+            silicon,
+        }
     }
 
     pub fn node_count(&self) -> usize {
@@ -181,8 +209,16 @@ impl Problem {
     /// Width in x of node `i`'s box, nm.
     pub fn box_width_x(&self, i: usize) -> f64 {
         let xs = &self.x.nodes;
-        let left = if i > 0 { 0.5 * (xs[i] - xs[i - 1]) } else { 0.0 };
-        let right = if i + 1 < self.nx { 0.5 * (xs[i + 1] - xs[i]) } else { 0.0 };
+        let left = if i > 0 {
+            0.5 * (xs[i] - xs[i - 1])
+        } else {
+            0.0
+        };
+        let right = if i + 1 < self.nx {
+            0.5 * (xs[i + 1] - xs[i])
+        } else {
+            0.0
+        };
         left + right
     }
 
@@ -190,7 +226,10 @@ impl Problem {
     #[inline]
     pub fn carriers(&self, psi: f64, phi_n: f64, phi_p: f64) -> (f64, f64) {
         let s = &self.silicon;
-        (s.ni * ((psi - phi_n) / s.vt).exp(), s.ni * ((phi_p - psi) / s.vt).exp())
+        (
+            s.ni * ((psi - phi_n) / s.vt).exp(),
+            s.ni * ((phi_p - psi) / s.vt).exp(),
+        )
     }
 
     /// Sum of the coupling coefficients of node `k` and the flux term
@@ -235,7 +274,10 @@ impl Problem {
         let (n, p) = self.carriers(psi[k], phi_n, phi_p);
         let rho = p - n + self.net_doping[k];
         let scale = Q_OVER_EPS0_V_NM * a;
-        (flux + scale * rho, sum_c + scale * (n + p) / self.silicon.vt)
+        (
+            flux + scale * rho,
+            sum_c + scale * (n + p) / self.silicon.vt,
+        )
     }
 
     /// Integral over the semiconductor of column `i` of `f(psi)`, in units of f times nm:
@@ -262,12 +304,20 @@ mod tests {
     #[test]
     fn box_areas_tile_the_semiconductor() {
         let x = Line::uniform(0.0, 4.0, 4);
-        let y = Line { nodes: vec![-1.0, 0.0, 0.5, 1.5, 3.0] };
+        let y = Line {
+            nodes: vec![-1.0, 0.0, 0.5, 1.5, 3.0],
+        };
         let p = Problem::new(
             x,
             y,
             Silicon::at(300.0),
-            |_, yc| if yc < 0.0 { CellKind::Dielectric(3.9) } else { CellKind::Semi },
+            |_, yc| {
+                if yc < 0.0 {
+                    CellKind::Dielectric(3.9)
+                } else {
+                    CellKind::Semi
+                }
+            },
             |_, _| None,
             |_, _, _, _| 1e-3,
         );

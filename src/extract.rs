@@ -6,13 +6,21 @@ use crate::discretize::Problem;
 #[derive(Debug, Clone, PartialEq, thiserror::Error)]
 pub enum ExtractError {
     #[error("the gate sweep does not reach the threshold current {target_a_per_um:.3e} A/um ({detail}); {suggestion}")]
-    NotBracketed { target_a_per_um: f64, detail: String, suggestion: String },
+    NotBracketed {
+        target_a_per_um: f64,
+        detail: String,
+        suggestion: String,
+    },
     #[error("the SS window (1e-3 to 1e-1 of the threshold current) is not inside the gate sweep ({detail}); {suggestion}")]
     WindowNotBracketed { detail: String, suggestion: String },
     #[error("only {0} bias points fall in the SS window; use a smaller bias.vgs_step_V")]
     TooFewPoints(usize),
     #[error("bias point V_G = {vgs_v:.4} V at V_DS = {vds_v} V did not converge: {reason}")]
-    NotConverged { vgs_v: f64, vds_v: f64, reason: String },
+    NotConverged {
+        vgs_v: f64,
+        vds_v: f64,
+        reason: String,
+    },
 }
 
 /// A transfer curve in sweep order, from the off end toward the on end.
@@ -30,7 +38,10 @@ pub fn threshold(c: &Curve, target: f64) -> Result<f64, ExtractError> {
     if i[0] >= target {
         return Err(ExtractError::NotBracketed {
             target_a_per_um: target,
-            detail: format!("already {:.3e} A/um at the first gate voltage {:.3} V", i[0], v[0]),
+            detail: format!(
+                "already {:.3e} A/um at the first gate voltage {:.3} V",
+                i[0], v[0]
+            ),
             suggestion: format!("start the sweep further toward off than {:.3} V", v[0]),
         });
     }
@@ -42,7 +53,11 @@ pub fn threshold(c: &Curve, target: f64) -> Result<f64, ExtractError> {
     }
     Err(ExtractError::NotBracketed {
         target_a_per_um: target,
-        detail: format!("only {:.3e} A/um at the last gate voltage {:.3} V", i[v.len() - 1], v[v.len() - 1]),
+        detail: format!(
+            "only {:.3e} A/um at the last gate voltage {:.3} V",
+            i[v.len() - 1],
+            v[v.len() - 1]
+        ),
         suggestion: format!("extend the sweep beyond {:.3} V", v[v.len() - 1]),
     })
 }
@@ -54,7 +69,10 @@ pub fn swing(c: &Curve, target: f64) -> Result<f64, ExtractError> {
     let (v, i) = (c.vgs_v, c.id_abs);
     if i[0] > lo {
         return Err(ExtractError::WindowNotBracketed {
-            detail: format!("{:.3e} A/um at the first gate voltage {:.3} V is above {:.3e}", i[0], v[0], lo),
+            detail: format!(
+                "{:.3e} A/um at the first gate voltage {:.3} V is above {:.3e}",
+                i[0], v[0], lo
+            ),
             suggestion: format!("start the sweep further toward off than {:.3} V", v[0]),
         });
     }
@@ -64,7 +82,12 @@ pub fn swing(c: &Curve, target: f64) -> Result<f64, ExtractError> {
             suggestion: format!("extend the sweep beyond {:.3} V", v[v.len() - 1]),
         });
     }
-    let pts: Vec<(f64, f64)> = v.iter().zip(i).filter(|(_, &x)| x >= lo && x <= hi).map(|(&a, &b)| (a, b.log10())).collect();
+    let pts: Vec<(f64, f64)> = v
+        .iter()
+        .zip(i)
+        .filter(|(_, &x)| x >= lo && x <= hi)
+        .map(|(&a, &b)| (a, b.log10()))
+        .collect();
     if pts.len() < 3 {
         return Err(ExtractError::TooFewPoints(pts.len()));
     }
@@ -101,7 +124,11 @@ pub fn band_edge_ev(p: &Problem, psi: f64, sign: f64) -> f64 {
 /// For each semiconductor row the barrier is the maximum band edge over x;
 /// the device barrier is the lowest of these (the leakiest path).
 pub fn barrier(p: &Problem, psi: &[f64], sign: f64) -> Barrier {
-    let mut best = Barrier { height_ev: f64::INFINITY, depth_nm: 0.0, x_nm: 0.0 };
+    let mut best = Barrier {
+        height_ev: f64::INFINITY,
+        depth_nm: 0.0,
+        x_nm: 0.0,
+    };
     for j in 0..p.ny {
         let mut top = f64::NEG_INFINITY;
         let mut x_top = 0.0;
@@ -118,7 +145,11 @@ pub fn barrier(p: &Problem, psi: &[f64], sign: f64) -> Barrier {
             }
         }
         if any && top < best.height_ev {
-            best = Barrier { height_ev: top, depth_nm: p.y.nodes[j], x_nm: x_top };
+            best = Barrier {
+                height_ev: top,
+                depth_nm: p.y.nodes[j],
+                x_nm: x_top,
+            };
         }
     }
     best
@@ -133,12 +164,21 @@ mod tests {
         // I = 1e-12 * 10^((V - 0)/0.07): SS = 70 mV/dec, I = 1e-7 at V = 0.35.
         let v: Vec<f64> = (0..60).map(|k| -0.2 + 0.02 * k as f64).collect();
         let i: Vec<f64> = v.iter().map(|x| 1e-12 * 10f64.powf(x / 0.07)).collect();
-        let c = Curve { vgs_v: &v, id_abs: &i };
+        let c = Curve {
+            vgs_v: &v,
+            id_abs: &i,
+        };
         assert!((threshold(&c, 1e-7).unwrap() - 0.35).abs() < 1e-12);
         assert!((swing(&c, 1e-7).unwrap() - 70.0).abs() < 1e-9);
         assert!(threshold(&c, 1e3).is_err());
-        let c2 = Curve { vgs_v: &v[30..], id_abs: &i[30..] };
-        assert!(matches!(swing(&c2, 1e-7), Err(ExtractError::WindowNotBracketed { .. })));
+        let c2 = Curve {
+            vgs_v: &v[30..],
+            id_abs: &i[30..],
+        };
+        assert!(matches!(
+            swing(&c2, 1e-7),
+            Err(ExtractError::WindowNotBracketed { .. })
+        ));
     }
 
     #[test]

@@ -8,7 +8,9 @@
 use crate::device::Scenario;
 use crate::discretize::Problem;
 use crate::physics::{CM2_TO_NM2, Q_C};
-use crate::solve::{apply_boundaries, neutral_guess, NewtonOptions, PoissonSolver, QuasiFermi, SolveError};
+use crate::solve::{
+    apply_boundaries, neutral_guess, NewtonOptions, PoissonSolver, QuasiFermi, SolveError,
+};
 use crate::structure::{long_channel_column, BACK_PLANE, GATE};
 
 /// Gauss-Legendre nodes and weights on [-1, 1], 8 points.
@@ -83,7 +85,10 @@ impl Column {
     pub fn sheet_density(&mut self, vgs: f64, v: f64) -> Result<f64, LongChannelError> {
         let p = &self.problem;
         let si = p.silicon;
-        let electrodes = [si.electrode_potential(vgs, self.wf), si.electrode_potential(self.back_bias, self.back_wf)];
+        let electrodes = [
+            si.electrode_potential(vgs, self.wf),
+            si.electrode_potential(self.back_bias, self.back_wf),
+        ];
         debug_assert!(GATE == 0 && BACK_PLANE == 1);
         apply_boundaries(p, &mut self.psi, &electrodes, &[0.0, 0.0, 0.0]);
         let qf = if self.sign > 0.0 {
@@ -94,7 +99,11 @@ impl Column {
         let rep = self.solver.solve(p, &mut self.psi, &qf, &self.opts)?;
         self.steps += rep.steps;
         if !rep.converged {
-            return Err(LongChannelError::NotConverged { vgs_v: vgs, v, reason: rep.reason });
+            return Err(LongChannelError::NotConverged {
+                vgs_v: vgs,
+                v,
+                reason: rep.reason,
+            });
         }
         let s = self.sign;
         let vt = si.vt;
@@ -130,7 +139,9 @@ pub fn long_channel(s: &Scenario) -> Result<(LongChannel, usize), LongChannelErr
     if sign < 0.0 {
         grid.reverse();
     }
-    let log_i = |col: &mut Column, vg: f64| -> Result<f64, LongChannelError> { Ok(col.current_l_over_w(vg, vds)?.log10()) };
+    let log_i = |col: &mut Column, vg: f64| -> Result<f64, LongChannelError> {
+        Ok(col.current_l_over_w(vg, vds)?.log10())
+    };
     let lt = target.log10();
     let mut prev: Option<(f64, f64)> = None;
     let mut bracket = None;
@@ -184,5 +195,11 @@ pub fn long_channel(s: &Scenario) -> Result<(LongChannel, usize), LongChannelErr
     let h = 2e-3;
     let slope = (log_i(&mut col, v_mid + h)? - log_i(&mut col, v_mid - h)?) / (2.0 * h);
     let steps = col.steps;
-    Ok((LongChannel { vt_v: vt, ss_mv_per_dec: 1000.0 / slope.abs() }, steps))
+    Ok((
+        LongChannel {
+            vt_v: vt,
+            ss_mv_per_dec: 1000.0 / slope.abs(),
+        },
+        steps,
+    ))
 }

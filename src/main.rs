@@ -3,8 +3,17 @@ fn main() {
     let s = gatehold::device::load_device(std::path::Path::new(&path)).unwrap();
     let t = std::time::Instant::now();
     let sol = gatehold::run::run_device(&s, &gatehold::run::Silent).unwrap();
-    let mut r = sol.report.clone();
-    r.vgs_v.clear(); r.id_lin.clear(); r.id_sat.clear();
-    println!("{}", serde_json::to_string_pretty(&r).unwrap());
-    eprintln!("{:?}", t.elapsed());
+    for sw in [&sol.lin, &sol.sat] {
+        let st: Vec<usize> = sw.points.iter().map(|p| p.report.steps).collect();
+        println!(
+            "vds {} steps {:?} newton {} fact {}",
+            sw.vds_v, st, sw.newton_steps, sw.factorisations
+        );
+    }
+    eprintln!(
+        "{:?} nodes {} unknowns {}",
+        t.elapsed(),
+        sol.report.nodes,
+        sol.report.unknowns
+    );
 }

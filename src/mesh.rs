@@ -24,6 +24,8 @@ pub struct Segment {
     pub end_step: EndStep,
     /// Largest allowed cell, nm.
     pub max_step: f64,
+    /// Growth of the step per nm of distance from a refined end.
+    pub growth: f64,
 }
 
 /// Growth of the step per nm of distance from a refined end (dimensionless;
@@ -33,10 +35,10 @@ pub const GROWTH: f64 = 0.25;
 fn spacing(seg: &Segment, x: f64) -> f64 {
     let mut h = seg.max_step;
     if let EndStep::Fine(h0) = seg.start_step {
-        h = h.min(h0 + GROWTH * (x - seg.start));
+        h = h.min(h0 + seg.growth * (x - seg.start));
     }
     if let EndStep::Fine(h1) = seg.end_step {
-        h = h.min(h1 + GROWTH * (seg.end - x));
+        h = h.min(h1 + seg.growth * (seg.end - x));
     }
     h
 }
@@ -129,13 +131,16 @@ impl Line {
 }
 
 /// Builds a line through sorted, distinct hard points, refining toward the
-/// points that `fine(x)` gives a step for.
+/// points that `fine(x)` gives a step for. `refinement` divides every step
+/// (the refined steps, the growth and the maximum): 2 gives a mesh twice as fine.
 pub fn graded_line(
     hard_points: &[f64],
     fine: impl Fn(f64) -> Option<f64>,
     max_step: f64,
+    refinement: f64,
     min_cells: usize,
 ) -> Line {
+    let max_step = max_step / refinement;
     let mut pts: Vec<f64> = hard_points.to_vec();
     pts.sort_by(|a, b| a.partial_cmp(b).unwrap());
     pts.dedup_by(|a, b| (*a - *b).abs() < 1e-9);
@@ -143,7 +148,7 @@ pub fn graded_line(
         .windows(2)
         .map(|w| {
             let end_step = |x: f64| match fine(x) {
-                Some(h) => EndStep::Fine(h.min(max_step)),
+                Some(h) => EndStep::Fine((h / refinement).min(max_step)),
                 None => EndStep::Coarse,
             };
             Segment {
@@ -152,6 +157,7 @@ pub fn graded_line(
                 start_step: end_step(w[0]),
                 end_step: end_step(w[1]),
                 max_step,
+                growth: GROWTH / refinement,
             }
         })
         .collect();
@@ -170,6 +176,7 @@ mod tests {
             start_step: EndStep::Fine(0.1),
             end_step: EndStep::Coarse,
             max_step: 0.5,
+            growth: GROWTH,
         };
         let n = segment_nodes(&seg, 2);
         assert_eq!(n[0], 0.0);
@@ -181,13 +188,39 @@ mod tests {
         for w in steps.windows(2) {
             assert!(w[1] / w[0] < 1.4 && w[0] / w[1] < 1.4, "{w:?}");
         }
-        let tiny = Segment { start: 0.0, end: 0.3, start_step: EndStep::Coarse, end_step: EndStep::Coarse, max_step: 0.5 };
+        let tiny = Segment {
+            start: 0.0,
+            end: 0.3,
+            start_step: EndStep::Coarse,
+            end_step: EndStep::Coarse,
+            max_step: 0.5,
+            growth: GROWTH,
+        };
         assert_eq!(segment_nodes(&tiny, 2).len(), 3);
     }
 
     #[test]
     fn graded_line_keeps_hard_points() {
-        let line = graded_line(&[0.0, 2.0, 5.5, 9.0], |x| (x == 2.0).then_some(0.1), 0.5, 2);
+        let line = graded_line(
+            &[0.0, 2.0, 5.5, 9.0],
+            |x| (x == 2.0).then_some(0.1),
+            0.5,
+            1.0,
+            2,
+        );
+        let fine = graded_line(
+            &[0.0, 2.0, 5.5, 9.0],
+            |x| (x == 2.0).then_some(0.1),
+            0.5,
+            2.0,
+            2,
+        );
+        assert!(
+            fine.len() >= 2 * line.len() - 3,
+            "{} vs {}",
+            fine.len(),
+            line.len()
+        );
         for p in [0.0, 2.0, 5.5, 9.0] {
             assert!(line.index_of(p).is_some(), "{p} missing");
         }

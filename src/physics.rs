@@ -99,10 +99,10 @@ impl Silicon {
 /// Known dielectric materials and their relative permittivity.
 pub fn dielectric_permittivity(name: &str) -> Option<f64> {
     match name {
-        "SiO2" => Some(EPS_SIO2),  // common practice
-        "Si3N4" => Some(7.5),      // common practice (spacers)
-        "Al2O3" => Some(9.0),      // common practice, from memory
-        "HfO2" => Some(22.0),      // common practice; 20-25 reported by phase; from memory
+        "SiO2" => Some(EPS_SIO2), // common practice
+        "Si3N4" => Some(7.5),     // common practice (spacers)
+        "Al2O3" => Some(9.0),     // common practice, from memory
+        "HfO2" => Some(22.0),     // common practice; 20-25 reported by phase; from memory
         "air" | "vacuum" => Some(1.0),
         _ => None,
     }

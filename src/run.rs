@@ -6,19 +6,25 @@ use crate::device::{Architecture, Scenario};
 use crate::discretize::Problem;
 use crate::extract::{self, Barrier, Curve, ExtractError};
 use crate::long_channel::long_channel;
-use crate::solve::{apply_boundaries, neutral_guess, NewtonOptions, PoissonSolver, QuasiFermi, SolveError, SolveReport};
+use crate::solve::{
+    apply_boundaries, neutral_guess, NewtonOptions, PoissonSolver, QuasiFermi, SolveError,
+    SolveReport,
+};
 use crate::structure::{along_channel, AlongChannel};
 use crate::theory::closed_form;
 use crate::transport::{levels, quasi_fermi, Transport};
 
 /// The standing caution printed with every result.
-pub const CAUTION: &str = "Screening-level estimate: classical (Boltzmann) carriers, no quantum confinement, \
+pub const CAUTION: &str =
+    "Screening-level estimate: classical (Boltzmann) carriers, no quantum confinement, \
 no velocity saturation, constant mobility, quasi-Fermi level uniform over each cross-section. \
 Use it to rank geometries before full device simulation; it is not a sign-off figure: defer to \
 calibrated device simulation and measured silicon.";
 
 /// Convergence of the channel carrier's quasi-Fermi level between iterations, V (MODEL.md section 4).
 pub const QF_TOL_V: f64 = 1e-7;
+/// Above this update (V) the next step refactorises the Jacobian.
+const REFACTOR_ABOVE_V: f64 = 1e-2;
 /// Largest drain-bias step while ramping, V.
 const VDS_RAMP_STEP_V: f64 = 0.1;
 
@@ -73,7 +79,13 @@ pub struct DeviceSolver<'a> {
 impl<'a> DeviceSolver<'a> {
     pub fn new(scenario: &'a Scenario, structure: &'a AlongChannel, solver: PoissonSolver) -> Self {
         let opts = NewtonOptions::for_vt(structure.problem.silicon.vt);
-        DeviceSolver { scenario, structure, solver, opts, steps: 0 }
+        DeviceSolver {
+            scenario,
+            structure,
+            solver,
+            opts,
+            steps: 0,
+        }
     }
 
     fn problem(&self) -> &Problem {
@@ -85,28 +97,49 @@ impl<'a> DeviceSolver<'a> {
         let p = self.problem();
         let si = p.silicon;
         let g = &self.scenario.gate;
-        let electrodes = [si.electrode_potential(vgs, g.workfunction_ev), si.electrode_potential(g.back_bias_v, g.back_workfunction_ev)];
+        let electrodes = [
+            si.electrode_potential(vgs, g.workfunction_ev),
+            si.electrode_potential(g.back_bias_v, g.back_workfunction_ev),
+        ];
         apply_boundaries(p, psi, &electrodes, &[0.0, vds, 0.0]);
     }
 
     /// Solves one bias point from the starting potential in `psi`: Newton steps
     /// interleaved with updates of the channel carrier's quasi-Fermi level.
-    pub fn solve_point(&mut self, psi: &mut [f64], vgs: f64, vds: f64) -> Result<(SolveReport, Transport), SolveError> {
+    pub fn solve_point(
+        &mut self,
+        psi: &mut [f64],
+        vgs: f64,
+        vds: f64,
+    ) -> Result<(SolveReport, Transport), SolveError> {
         self.set_bias(psi, vgs, vds);
         let sign = self.scenario.polarity.sign();
         let mu = self.scenario.extraction.mobility_cm2_per_vs;
         let p = &self.structure.problem;
         let mut t = quasi_fermi(p, psi, sign, vds, mu);
         let mut last = (f64::INFINITY, f64::INFINITY, f64::INFINITY);
+        let mut refactor = true;
         for step in 1..=self.opts.max_steps {
             let qf = levels(&t, sign);
-            let st = self.solver.newton_step(p, psi, &qf, self.opts.clamp_v)?;
+            let st = self.solver.step(p, psi, &qf, self.opts.clamp_v, refactor)?;
+            // Refactorise while Newton is far from the solution or a reused
+            // factorisation stops contracting (MODEL.md: reuse while Newton contracts).
+            refactor =
+                st.max_update_v > REFACTOR_ABOVE_V || (!refactor && st.max_update_v > 0.5 * last.0);
             let t_new = quasi_fermi(p, psi, sign, vds, mu);
-            let dphi = t_new.phi.iter().zip(&t.phi).map(|(a, b)| (a - b).abs()).fold(0.0, f64::max);
+            let dphi = t_new
+                .phi
+                .iter()
+                .zip(&t.phi)
+                .map(|(a, b)| (a - b).abs())
+                .fold(0.0, f64::max);
             t = t_new;
             self.steps += 1;
             last = (st.max_update_v, st.max_scaled_residual_v, dphi);
-            if st.max_update_v < self.opts.update_tol_v && st.max_scaled_residual_v < self.opts.residual_tol_v && dphi < QF_TOL_V {
+            if st.max_update_v < self.opts.update_tol_v
+                && st.max_scaled_residual_v < self.opts.residual_tol_v
+                && dphi < QF_TOL_V
+            {
                 return Ok((
                     SolveReport {
                         converged: true,
@@ -143,7 +176,10 @@ impl<'a> DeviceSolver<'a> {
             let v = vds * k as f64 / ramp as f64;
             let (rep, _) = self.solve_point(&mut psi, vgs, v)?;
             if !rep.converged {
-                return Err(SolveError::Factorisation(format!("drain ramp failed at V_DS = {v:.3} V: {}", rep.reason)));
+                return Err(SolveError::Factorisation(format!(
+                    "drain ramp failed at V_DS = {v:.3} V: {}",
+                    rep.reason
+                )));
             }
         }
         Ok(psi)
@@ -196,14 +232,28 @@ impl<'a> DeviceSolver<'a> {
                     off_psi = Some(guess.clone());
                 }
                 prev = Some(std::mem::replace(&mut psi, guess));
-                points.push(BiasPoint { vgs_v: vg, current_a_per_um: Some(t.current_a_per_um), report: rep });
+                points.push(BiasPoint {
+                    vgs_v: vg,
+                    current_a_per_um: Some(t.current_a_per_um),
+                    report: rep,
+                });
             } else {
                 prev = None;
-                points.push(BiasPoint { vgs_v: vg, current_a_per_um: None, report: rep });
+                points.push(BiasPoint {
+                    vgs_v: vg,
+                    current_a_per_um: None,
+                    report: rep,
+                });
             }
             last_vg = vg;
         }
-        Ok(DrainSweep { vds_v: vds, points, off_psi, newton_steps: self.steps - steps0, factorisations: self.solver.factorisations - f0 })
+        Ok(DrainSweep {
+            vds_v: vds,
+            points,
+            off_psi,
+            newton_steps: self.steps - steps0,
+            factorisations: self.solver.factorisations - f0,
+        })
     }
 }
 
@@ -311,16 +361,31 @@ pub struct DeviceSolution {
 
 fn curve_figures(sw: &DrainSweep, target: f64) -> Result<(f64, f64), ExtractError> {
     if let Some(bad) = sw.points.iter().find(|p| p.current_a_per_um.is_none()) {
-        return Err(ExtractError::NotConverged { vgs_v: bad.vgs_v, vds_v: sw.vds_v, reason: bad.report.reason.clone() });
+        return Err(ExtractError::NotConverged {
+            vgs_v: bad.vgs_v,
+            vds_v: sw.vds_v,
+            reason: bad.report.reason.clone(),
+        });
     }
     let v: Vec<f64> = sw.points.iter().map(|p| p.vgs_v).collect();
-    let i: Vec<f64> = sw.points.iter().map(|p| p.current_a_per_um.unwrap().abs()).collect();
-    let c = Curve { vgs_v: &v, id_abs: &i };
+    let i: Vec<f64> = sw
+        .points
+        .iter()
+        .map(|p| p.current_a_per_um.unwrap().abs())
+        .collect();
+    let c = Curve {
+        vgs_v: &v,
+        id_abs: &i,
+    };
     Ok((extract::threshold(&c, target)?, extract::swing(&c, target)?))
 }
 
 fn ascending(sw: &DrainSweep) -> (Vec<f64>, Vec<Option<f64>>) {
-    let mut pts: Vec<(f64, Option<f64>)> = sw.points.iter().map(|p| (p.vgs_v, p.current_a_per_um)).collect();
+    let mut pts: Vec<(f64, Option<f64>)> = sw
+        .points
+        .iter()
+        .map(|p| (p.vgs_v, p.current_a_per_um))
+        .collect();
     pts.sort_by(|a, b| a.0.partial_cmp(&b.0).unwrap());
     pts.into_iter().unzip()
 }
@@ -349,7 +414,9 @@ pub fn run_device(s: &Scenario, observer: &dyn Observer) -> Result<DeviceSolutio
     let lg_um = s.geometry.gate_length_nm * 1e-3;
     let target = s.extraction.current_criterion_a / lg_um;
     let sign = s.polarity.sign();
-    let fig = |sw: &DrainSweep, label: &str, problems: &mut Vec<String>| match curve_figures(sw, target) {
+    let fig = |sw: &DrainSweep, label: &str, problems: &mut Vec<String>| match curve_figures(
+        sw, target,
+    ) {
         Ok(v) => Some(v),
         Err(e) => {
             problems.push(format!("{label}: {e}"));
@@ -369,7 +436,10 @@ pub fn run_device(s: &Scenario, observer: &dyn Observer) -> Result<DeviceSolutio
     let barrier_of = |sw: &DrainSweep, label: &str, problems: &mut Vec<String>| match &sw.off_psi {
         Some(psi) => Some(extract::barrier(p, psi, sign)),
         None => {
-            problems.push(format!("{label}: the off-state point V_G = {} V did not converge", s.bias.off_vgs_v));
+            problems.push(format!(
+                "{label}: the off-state point V_G = {} V did not converge",
+                s.bias.off_vgs_v
+            ));
             None
         }
     };
@@ -377,16 +447,24 @@ pub fn run_device(s: &Scenario, observer: &dyn Observer) -> Result<DeviceSolutio
     let barrier_sat = barrier_of(&sat, "barrier at V_DS,sat", &mut problems);
     let vt_lin = lin_f.map(|f| f.0);
     let vt_sat = sat_f.map(|f| f.0);
-    let dibl = vt_lin.zip(vt_sat).map(|(a, b)| extract::dibl(a, b, s.bias.vds_lin_v, s.bias.vds_sat_v));
+    let dibl = vt_lin
+        .zip(vt_sat)
+        .map(|(a, b)| extract::dibl(a, b, s.bias.vds_lin_v, s.bias.vds_sat_v));
     let vt = s.temperature_k * crate::physics::K_B_J_PER_K / crate::physics::Q_C;
     let floor = long_fig.map(|l| {
         let g = |v: f64| 1.0 - (-(v.abs()) / vt).exp();
-        l.ss_mv_per_dec * (g(s.bias.vds_sat_v) / g(s.bias.vds_lin_v)).log10() / (s.bias.vds_sat_v - s.bias.vds_lin_v).abs()
+        l.ss_mv_per_dec * (g(s.bias.vds_sat_v) / g(s.bias.vds_lin_v)).log10()
+            / (s.bias.vds_sat_v - s.bias.vds_lin_v).abs()
     });
     let closed = closed_form::natural_length(s);
     let (vgs, id_lin) = ascending(&lin);
     let (_, id_sat) = ascending(&sat);
-    let converged = lin.points.iter().chain(&sat.points).all(|p| p.report.converged) && long_fig.is_some();
+    let converged = lin
+        .points
+        .iter()
+        .chain(&sat.points)
+        .all(|p| p.report.converged)
+        && long_fig.is_some();
     let report = DeviceReport {
         name: s.name.clone(),
         architecture: s.architecture.name().into(),
@@ -406,7 +484,9 @@ pub fn run_device(s: &Scenario, observer: &dyn Observer) -> Result<DeviceSolutio
         vt_rolloff_mv: vt_lin.zip(long_fig).map(|(a, l)| 1000.0 * (a - l.vt_v)),
         barrier_lin_ev: barrier_lin.map(|b| b.height_ev),
         barrier_sat_ev: barrier_sat.map(|b| b.height_ev),
-        barrier_lowering_mev: barrier_lin.zip(barrier_sat).map(|(a, b)| 1000.0 * (a.height_ev - b.height_ev)),
+        barrier_lowering_mev: barrier_lin
+            .zip(barrier_sat)
+            .map(|(a, b)| 1000.0 * (a.height_ev - b.height_ev)),
         leakiest_depth_nm: barrier_sat.map(|b| b.depth_nm),
         natural_length_nm: closed.map(|c| c.1),
         natural_length_formula: closed.map(|c| c.0.to_string()),
@@ -428,5 +508,12 @@ pub fn run_device(s: &Scenario, observer: &dyn Observer) -> Result<DeviceSolutio
         warnings: s.warnings.clone(),
         caution: CAUTION.into(),
     };
-    Ok(DeviceSolution { report, structure, lin, sat, barrier_lin, barrier_sat })
+    Ok(DeviceSolution {
+        report,
+        structure,
+        lin,
+        sat,
+        barrier_lin,
+        barrier_sat,
+    })
 }

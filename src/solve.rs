@@ -39,7 +39,10 @@ pub struct QuasiFermi {
 impl QuasiFermi {
     /// Both levels uniform.
     pub fn uniform(nx: usize, phi_n: f64, phi_p: f64) -> Self {
-        QuasiFermi { phi_n: vec![phi_n; nx], phi_p: vec![phi_p; nx] }
+        QuasiFermi {
+            phi_n: vec![phi_n; nx],
+            phi_p: vec![phi_p; nx],
+        }
     }
 }
 
@@ -78,7 +81,12 @@ pub struct NewtonOptions {
 impl NewtonOptions {
     /// Defaults for thermal voltage `vt`: update below 1e-6 V_T, steps clamped at 4 V_T.
     pub fn for_vt(vt: f64) -> Self {
-        NewtonOptions { update_tol_v: 1e-6 * vt, residual_tol_v: 1e-6 * vt, clamp_v: 4.0 * vt, max_steps: 200 }
+        NewtonOptions {
+            update_tol_v: 1e-6 * vt,
+            residual_tol_v: 1e-6 * vt,
+            clamp_v: 4.0 * vt,
+            max_steps: 200,
+        }
     }
 }
 
@@ -96,6 +104,7 @@ pub struct PoissonSolver {
     fmem: MemBuffer,
     smem: MemBuffer,
     rhs: Vec<f64>,
+    factored: bool,
     /// Numeric factorisations done so far.
     pub factorisations: usize,
 }
@@ -156,10 +165,20 @@ impl PoissonSolver {
                 }
             };
             if j > 0 {
-                push(k - nx, p.coef_y[i + (j - 1) * nx], &mut row_idx, &mut values);
+                push(
+                    k - nx,
+                    p.coef_y[i + (j - 1) * nx],
+                    &mut row_idx,
+                    &mut values,
+                );
             }
             if i > 0 {
-                push(k - 1, p.coef_x[i - 1 + j * (nx - 1)], &mut row_idx, &mut values);
+                push(
+                    k - 1,
+                    p.coef_x[i - 1 + j * (nx - 1)],
+                    &mut row_idx,
+                    &mut values,
+                );
             }
             diag_pos.push(row_idx.len());
             row_idx.push(unknown_of[k]);
@@ -172,13 +191,22 @@ impl PoissonSolver {
             }
             col_ptr.push(row_idx.len());
         }
-        Pattern { n, unknown_of, node_of, col_ptr, row_idx, values, diag_pos }
+        Pattern {
+            n,
+            unknown_of,
+            node_of,
+            col_ptr,
+            row_idx,
+            values,
+            diag_pos,
+        }
     }
 
     /// Orders and analyses the Jacobian's pattern for this mesh (done once).
     pub fn new(p: &Problem) -> Result<Self, SolveError> {
         let pat = Self::pattern(p);
-        let sym = SymbolicSparseColMatRef::new_checked(pat.n, pat.n, &pat.col_ptr, None, &pat.row_idx);
+        let sym =
+            SymbolicSparseColMatRef::new_checked(pat.n, pat.n, &pat.col_ptr, None, &pat.row_idx);
         let symbolic = factorize_symbolic_cholesky(
             sym,
             Side::Lower,
@@ -192,7 +220,8 @@ impl PoissonSolver {
     fn with_symbolic(pat: Pattern, symbolic: std::sync::Arc<SymbolicCholesky<usize>>) -> Self {
         let par = Par::Seq;
         let l_values = vec![0.0; symbolic.len_val()];
-        let fmem = MemBuffer::new(symbolic.factorize_numeric_llt_scratch::<f64>(par, Default::default()));
+        let fmem =
+            MemBuffer::new(symbolic.factorize_numeric_llt_scratch::<f64>(par, Default::default()));
         let smem = MemBuffer::new(symbolic.solve_in_place_scratch::<f64>(1, par));
         PoissonSolver {
             n: pat.n,
@@ -207,6 +236,7 @@ impl PoissonSolver {
             l_values,
             fmem,
             smem,
+            factored: false,
             factorisations: 0,
         }
     }
@@ -240,25 +270,48 @@ impl PoissonSolver {
         qf: &QuasiFermi,
         clamp_v: f64,
     ) -> Result<StepStats, SolveError> {
+        self.step(p, psi, qf, clamp_v, true)
+    }
+
+    /// One damped step; with `refactor == false` the last factorisation is
+    /// reused (a modified-Newton step: same fixed point, linear convergence).
+    pub fn step(
+        &mut self,
+        p: &Problem,
+        psi: &mut [f64],
+        qf: &QuasiFermi,
+        clamp_v: f64,
+        refactor: bool,
+    ) -> Result<StepStats, SolveError> {
         let residual = self.assemble(p, psi, qf);
         let par = Par::Seq;
-        let a = SparseColMatRef::new(
-            SymbolicSparseColMatRef::new_checked(self.n, self.n, &self.col_ptr, None, &self.row_idx),
-            &self.values,
-        );
-        let llt = self
-            .symbolic
-            .factorize_numeric_llt::<f64>(
-                &mut self.l_values,
-                a,
-                Side::Lower,
-                LltRegularization::default(),
-                par,
-                MemStack::new(&mut self.fmem),
-                Default::default(),
-            )
-            .map_err(|e| SolveError::Factorisation(format!("{e:?}")))?;
-        self.factorisations += 1;
+        if refactor || !self.factored {
+            let a = SparseColMatRef::new(
+                SymbolicSparseColMatRef::new_checked(
+                    self.n,
+                    self.n,
+                    &self.col_ptr,
+                    None,
+                    &self.row_idx,
+                ),
+                &self.values,
+            );
+            self.factored = false;
+            self.symbolic
+                .factorize_numeric_llt::<f64>(
+                    &mut self.l_values,
+                    a,
+                    Side::Lower,
+                    LltRegularization::default(),
+                    par,
+                    MemStack::new(&mut self.fmem),
+                    Default::default(),
+                )
+                .map_err(|e| SolveError::Factorisation(format!("{e:?}")))?;
+            self.factored = true;
+            self.factorisations += 1;
+        }
+        let llt = faer::sparse::linalg::cholesky::LltRef::new(&self.symbolic, &self.l_values);
         let x = MatMut::from_column_major_slice_mut(&mut self.rhs, self.n, 1);
         llt.solve_in_place_with_conj(Conj::No, x, par, MemStack::new(&mut self.smem));
         let mut max_update: f64 = 0.0;
@@ -266,12 +319,19 @@ impl PoissonSolver {
             let d = self.rhs[u];
             let k = self.node_of[u];
             if !d.is_finite() {
-                return Err(SolveError::NonFinite { node: k, x_nm: p.x.nodes[k % p.nx], y_nm: p.y.nodes[k / p.nx] });
+                return Err(SolveError::NonFinite {
+                    node: k,
+                    x_nm: p.x.nodes[k % p.nx],
+                    y_nm: p.y.nodes[k / p.nx],
+                });
             }
             max_update = max_update.max(d.abs());
             psi[k] += d.clamp(-clamp_v, clamp_v);
         }
-        Ok(StepStats { max_update_v: max_update, max_scaled_residual_v: residual })
+        Ok(StepStats {
+            max_update_v: max_update,
+            max_scaled_residual_v: residual,
+        })
     }
 
     /// Newton iteration with fixed quasi-Fermi levels until converged or out of steps.
@@ -282,10 +342,15 @@ impl PoissonSolver {
         qf: &QuasiFermi,
         opts: &NewtonOptions,
     ) -> Result<SolveReport, SolveError> {
-        let mut last = StepStats { max_update_v: f64::INFINITY, max_scaled_residual_v: f64::INFINITY };
+        let mut last = StepStats {
+            max_update_v: f64::INFINITY,
+            max_scaled_residual_v: f64::INFINITY,
+        };
         for step in 1..=opts.max_steps {
             last = self.newton_step(p, psi, qf, opts.clamp_v)?;
-            if last.max_update_v < opts.update_tol_v && last.max_scaled_residual_v < opts.residual_tol_v {
+            if last.max_update_v < opts.update_tol_v
+                && last.max_scaled_residual_v < opts.residual_tol_v
+            {
                 return Ok(SolveReport {
                     converged: true,
                     steps: step,
@@ -314,7 +379,9 @@ pub fn apply_boundaries(p: &Problem, psi: &mut [f64], electrode_v: &[f64], conta
     for (k, kind) in p.nodes.iter().enumerate() {
         match *kind {
             NodeKind::Electrode(e) => psi[k] = electrode_v[e],
-            NodeKind::Contact(c) => psi[k] = p.silicon.ohmic_potential(contact_v[c], p.net_doping[k]),
+            NodeKind::Contact(c) => {
+                psi[k] = p.silicon.ohmic_potential(contact_v[c], p.net_doping[k])
+            }
             NodeKind::Free => {}
         }
     }

@@ -20,7 +20,7 @@ pub const DRAIN: usize = 1;
 pub const SUBSTRATE: usize = 2;
 
 /// Finest step at a silicon/dielectric interface, nm (inversion layer ~1 nm; common practice).
-pub const FINE_INTERFACE_NM: f64 = 0.1;
+pub const FINE_INTERFACE_NM: f64 = 0.02;
 /// Finest step at junctions and gate edges, nm.
 pub const FINE_JUNCTION_NM: f64 = 0.2;
 /// Finest step at other refined points (gate electrode corners, well bottoms), nm.
@@ -33,7 +33,13 @@ const BACK_PLANE_SLAB_NM: f64 = 1.0;
 pub fn step_tail_avg(x0: f64, x1: f64, edge: f64, grad: f64) -> f64 {
     let w = x1 - x0;
     if w <= 0.0 {
-        return if x0 <= edge { 1.0 } else if grad > 0.0 { 10f64.powf(-(x0 - edge) / grad) } else { 0.0 };
+        return if x0 <= edge {
+            1.0
+        } else if grad > 0.0 {
+            10f64.powf(-(x0 - edge) / grad)
+        } else {
+            0.0
+        };
     }
     let flat = (x1.min(edge) - x0).max(0.0);
     let tail = if grad > 0.0 && x1 > edge {
@@ -80,7 +86,9 @@ impl DopingProfile {
     pub fn sd_avg(&self, x0: f64, x1: f64, y0: f64, y1: f64) -> f64 {
         let lateral = step_tail_avg(x0, x1, self.source_edge, self.grad)
             + step_tail_avg(-x1, -x0, -self.drain_edge, self.grad);
-        let vertical = self.well_depth.map_or(1.0, |xj| step_tail_avg(y0, y1, xj, self.grad));
+        let vertical = self
+            .well_depth
+            .map_or(1.0, |xj| step_tail_avg(y0, y1, xj, self.grad));
         self.nsd * lateral * vertical
     }
 
@@ -141,7 +149,11 @@ fn stack_layers_down(s: &Scenario, from: f64, down: bool) -> Vec<(f64, f64, f64)
     let mut out = Vec::new();
     let mut y = from;
     for l in &s.stack {
-        let y2 = if down { y + l.thickness_nm } else { y - l.thickness_nm };
+        let y2 = if down {
+            y + l.thickness_nm
+        } else {
+            y - l.thickness_nm
+        };
         out.push((y.min(y2), y.max(y2), l.eps_r));
         y = y2;
     }
@@ -160,6 +172,7 @@ fn vertical_layout(s: &Scenario) -> VerticalLayout {
     match s.architecture {
         Architecture::DoubleGate => {
             hard.push(tsi);
+            hard.push(0.5 * tsi); // the symmetry plane is a mesh line
             fine.push((tsi, FINE_INTERFACE_NM));
             for (_, y1, _) in stack_layers_down(s, tsi, true) {
                 hard.push(y1);
@@ -184,14 +197,17 @@ fn vertical_layout(s: &Scenario) -> VerticalLayout {
 }
 
 fn lookup(fine: &[(f64, f64)], x: f64) -> Option<f64> {
-    fine.iter().filter(|(p, _)| (p - x).abs() < 1e-9).map(|(_, h)| *h).reduce(f64::min)
+    fine.iter()
+        .filter(|(p, _)| (p - x).abs() < 1e-9)
+        .map(|(_, h)| *h)
+        .reduce(f64::min)
 }
 
 /// Mesh lines in y for a planar device's column (shared by the 2D and 1D problems).
 fn y_line(s: &Scenario) -> Line {
     let v = vertical_layout(s);
     let r = s.mesh.refinement;
-    graded_line(&v.hard, |y| lookup(&v.fine, y).map(|h| h / r), s.mesh.max_step_nm / r, 2)
+    graded_line(&v.hard, |y| lookup(&v.fine, y), s.mesh.max_step_nm, r, 2)
 }
 
 /// Material of a planar device at (x, y); `gate` is the x-range of the gate electrode.
@@ -244,7 +260,10 @@ fn planar_material(s: &Scenario, x: f64, y: f64, gate: (f64, f64)) -> CellKind {
 
 /// Builds the along-channel structure of a bulk, thin-body or double-gate device.
 pub fn along_channel(s: &Scenario) -> AlongChannel {
-    assert!(s.architecture.is_planar(), "along_channel needs a planar architecture");
+    assert!(
+        s.architecture.is_planar(),
+        "along_channel needs a planar architecture"
+    );
     let g = &s.geometry;
     let r = s.mesh.refinement;
     let sd = g.source_drain_length_nm;
@@ -259,7 +278,7 @@ pub fn along_channel(s: &Scenario) -> AlongChannel {
             fine.push((e, FINE_JUNCTION_NM));
         }
     }
-    let x = graded_line(&hard, |p| lookup(&fine, p).map(|h| h / r), s.mesh.max_step_nm / r, 2);
+    let x = graded_line(&hard, |p| lookup(&fine, p), s.mesh.max_step_nm, r, 2);
     let y = y_line(s);
     let silicon = Silicon::at(s.temperature_k);
     let nx = x.len();
@@ -290,14 +309,23 @@ pub fn along_channel(s: &Scenario) -> AlongChannel {
         Architecture::Bulk => g.substrate_depth_nm,
         _ => g.body_thickness_nm,
     };
-    AlongChannel { problem, gate_start_nm: sd, gate_end_nm: sd + l, silicon_bottom_nm, doping }
+    AlongChannel {
+        problem,
+        gate_start_nm: sd,
+        gate_end_nm: sd + l,
+        silicon_bottom_nm,
+        doping,
+    }
 }
 
 /// The 1D long-channel column at mid-channel (a one-cell-wide strip with
 /// zero-field sides), channel doping only. Bulk keeps its substrate contact
 /// (contact 2); films float, their carriers set by the quasi-Fermi levels.
 pub fn long_channel_column(s: &Scenario) -> Problem {
-    assert!(s.architecture.is_planar(), "long_channel_column needs a planar architecture");
+    assert!(
+        s.architecture.is_planar(),
+        "long_channel_column needs a planar architecture"
+    );
     let y = y_line(s);
     let ny = y.len();
     let bulk = s.architecture == Architecture::Bulk;

@@ -20,7 +20,9 @@ use crate::solve::QuasiFermi;
 pub fn column_densities(p: &Problem, psi: &[f64], sign: f64) -> Vec<f64> {
     let ni = p.silicon.ni;
     let vt = p.silicon.vt;
-    (0..p.nx).map(|i| p.column_integral(psi, i, |v| ni * (sign * v / vt).exp())).collect()
+    (0..p.nx)
+        .map(|i| p.column_integral(psi, i, |v| ni * (sign * v / vt).exp()))
+        .collect()
 }
 
 /// int dx / N over each cell, exact for N log-linear between nodes, nm^3.
@@ -75,15 +77,24 @@ pub fn quasi_fermi(p: &Problem, psi: &[f64], sign: f64, vds: f64, mobility_cm2: 
         .collect();
     // A/nm of width -> A/um.
     let i_per_nm = Q_C * mobility_cm2 * CM2_TO_NM2 * vt * (1.0 - e) / total;
-    Transport { phi, current_a_per_um: sign * i_per_nm * 1e3 }
+    Transport {
+        phi,
+        current_a_per_um: sign * i_per_nm * 1e3,
+    }
 }
 
 /// Quasi-Fermi levels of both carriers: the channel carrier from `t`, the other at 0 V.
 pub fn levels(t: &Transport, sign: f64) -> QuasiFermi {
     let zeros = vec![0.0; t.phi.len()];
     if sign > 0.0 {
-        QuasiFermi { phi_n: t.phi.clone(), phi_p: zeros }
+        QuasiFermi {
+            phi_n: t.phi.clone(),
+            phi_p: zeros,
+        }
     } else {
-        QuasiFermi { phi_n: zeros, phi_p: t.phi.clone() }
+        QuasiFermi {
+            phi_n: zeros,
+            phi_p: t.phi.clone(),
+        }
     }
 }

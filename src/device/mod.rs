@@ -21,38 +21,89 @@ pub enum DeviceError {
     #[error("not valid TOML: {0}")]
     Syntax(String),
     #[error("unknown key `{key}`{}", suggestion.as_ref().map(|s| format!(" (did you mean `{s}`?)")).unwrap_or_default())]
-    UnknownKey { key: String, suggestion: Option<String> },
+    UnknownKey {
+        key: String,
+        suggestion: Option<String>,
+    },
     #[error("missing key `{key}`: {reason}")]
     Missing { key: String, reason: String },
     #[error("`{key}` = {value}: {reason}")]
-    Invalid { key: String, value: String, reason: String },
+    Invalid {
+        key: String,
+        value: String,
+        reason: String,
+    },
 }
 
 fn invalid(key: &str, value: impl std::fmt::Display, reason: impl Into<String>) -> DeviceError {
-    DeviceError::Invalid { key: key.into(), value: value.to_string(), reason: reason.into() }
+    DeviceError::Invalid {
+        key: key.into(),
+        value: value.to_string(),
+        reason: reason.into(),
+    }
 }
 
 /// Top-level keys and the keys of each table, as in the contract (plus our extensions).
 const TOP_KEYS: &[&str] = &[
-    "name", "architecture", "polarity", "temperature_K", "geometry", "gate_stack", "gate", "doping",
-    "bias", "extraction", "mesh",
+    "name",
+    "architecture",
+    "polarity",
+    "temperature_K",
+    "geometry",
+    "gate_stack",
+    "gate",
+    "doping",
+    "bias",
+    "extraction",
+    "mesh",
 ];
 const TABLE_KEYS: &[(&str, &[&str])] = &[
     (
         "geometry",
         &[
-            "gate_length_nm", "body_thickness_nm", "fin_height_nm", "fin_pitch_nm", "box_thickness_nm",
-            "source_drain_length_nm", "junction_depth_nm", "substrate_depth_nm", "gate_height_nm", "spacer",
-            "box_material", "cap_thickness_nm", "cap_material",
+            "gate_length_nm",
+            "body_thickness_nm",
+            "fin_height_nm",
+            "fin_pitch_nm",
+            "box_thickness_nm",
+            "source_drain_length_nm",
+            "junction_depth_nm",
+            "substrate_depth_nm",
+            "gate_height_nm",
+            "spacer",
+            "box_material",
+            "cap_thickness_nm",
+            "cap_material",
         ],
     ),
-    ("gate", &["workfunction_eV", "back_workfunction_eV", "back_bias_V"]),
+    (
+        "gate",
+        &["workfunction_eV", "back_workfunction_eV", "back_bias_V"],
+    ),
     (
         "doping",
-        &["channel_cm3", "source_drain_cm3", "junction_offset_nm", "junction_gradient_nm_per_decade"],
+        &[
+            "channel_cm3",
+            "source_drain_cm3",
+            "junction_offset_nm",
+            "junction_gradient_nm_per_decade",
+        ],
     ),
-    ("bias", &["vds_lin_V", "vds_sat_V", "vgs_start_V", "vgs_stop_V", "vgs_step_V", "off_vgs_V"]),
-    ("extraction", &["current_criterion_A", "mobility_cm2_per_Vs"]),
+    (
+        "bias",
+        &[
+            "vds_lin_V",
+            "vds_sat_V",
+            "vgs_start_V",
+            "vgs_stop_V",
+            "vgs_step_V",
+            "off_vgs_V",
+        ],
+    ),
+    (
+        "extraction",
+        &["current_criterion_A", "mobility_cm2_per_Vs"],
+    ),
     ("mesh", &["max_step_nm", "refinement"]),
 ];
 const LAYER_KEYS: &[&str] = &["material", "relative_permittivity", "thickness_nm"];
@@ -67,17 +118,28 @@ pub fn known_keys() -> Vec<String> {
     keys
 }
 
-fn levenshtein(a: &str, b: &str) -> usize {
+/// Edit distance with adjacent transpositions (optimal string alignment).
+fn edit_distance(a: &str, b: &str) -> usize {
+    let a: Vec<char> = a.chars().collect();
     let b: Vec<char> = b.chars().collect();
-    let mut prev: Vec<usize> = (0..=b.len()).collect();
-    for (i, ca) in a.chars().enumerate() {
-        let mut cur = vec![i + 1; b.len() + 1];
-        for (j, cb) in b.iter().enumerate() {
-            cur[j + 1] = (prev[j] + usize::from(ca != *cb)).min(prev[j + 1] + 1).min(cur[j] + 1);
-        }
-        prev = cur;
+    let mut d = vec![vec![0usize; b.len() + 1]; a.len() + 1];
+    for (i, row) in d.iter_mut().enumerate() {
+        row[0] = i;
     }
-    prev[b.len()]
+    for j in 0..=b.len() {
+        d[0][j] = j;
+    }
+    for i in 1..=a.len() {
+        for j in 1..=b.len() {
+            let cost = usize::from(a[i - 1] != b[j - 1]);
+            let mut v = (d[i - 1][j] + 1).min(d[i][j - 1] + 1).min(d[i - 1][j - 1] + cost);
+            if i > 1 && j > 1 && a[i - 1] == b[j - 2] && a[i - 2] == b[j - 1] {
+                v = v.min(d[i - 2][j - 2] + 1);
+            }
+            d[i][j] = v;
+        }
+    }
+    d[a.len()][b.len()]
 }
 
 /// The closest of `candidates` to `key` (case-insensitive edit distance), if reasonably close.
@@ -85,7 +147,7 @@ pub fn closest<'a>(key: &str, candidates: impl IntoIterator<Item = &'a str>) -> 
     let lower = key.to_lowercase();
     candidates
         .into_iter()
-        .map(|c| (levenshtein(&lower, &c.to_lowercase()), c))
+        .map(|c| (edit_distance(&lower, &c.to_lowercase()), c))
         .min()
         .filter(|(d, c)| *d <= (c.len() / 2).max(3))
         .map(|(_, c)| c.to_string())
@@ -108,7 +170,8 @@ fn check_keys(root: &toml::Table) -> Result<(), DeviceError> {
                 if !allowed.contains(&sub.as_str()) {
                     return Err(DeviceError::UnknownKey {
                         key: format!("{k}.{sub}"),
-                        suggestion: closest(sub, allowed.iter().copied()).map(|s| format!("{k}.{s}")),
+                        suggestion: closest(sub, allowed.iter().copied())
+                            .map(|s| format!("{k}.{s}")),
                     });
                 }
             }
@@ -182,7 +245,10 @@ impl<'a> Reader<'a> {
     }
 
     fn required_number(&self, key: &str, why: &str) -> Result<f64, DeviceError> {
-        self.number(key)?.ok_or_else(|| DeviceError::Missing { key: key.into(), reason: why.into() })
+        self.number(key)?.ok_or_else(|| DeviceError::Missing {
+            key: key.into(),
+            reason: why.into(),
+        })
     }
 }
 
@@ -198,7 +264,11 @@ fn in_range(key: &str, x: f64, lo: f64, hi: f64, unit: &str) -> Result<f64, Devi
     if x >= lo && x <= hi {
         Ok(x)
     } else {
-        Err(invalid(key, x, format!("outside the accepted range {lo} to {hi} {unit}")))
+        Err(invalid(
+            key,
+            x,
+            format!("outside the accepted range {lo} to {hi} {unit}"),
+        ))
     }
 }
 
@@ -220,14 +290,17 @@ fn dielectric(key: &str, name: &str) -> Result<f64, DeviceError> {
 
 /// Reads a device file from disk.
 pub fn load_device(path: &std::path::Path) -> Result<Scenario, DeviceError> {
-    let text = std::fs::read_to_string(path)
-        .map_err(|e| DeviceError::Io { path: path.display().to_string(), reason: e.to_string() })?;
+    let text = std::fs::read_to_string(path).map_err(|e| DeviceError::Io {
+        path: path.display().to_string(),
+        reason: e.to_string(),
+    })?;
     parse_device(&text)
 }
 
 /// Parses device-file text into a table (syntax only).
 pub fn parse_table(text: &str) -> Result<toml::Table, DeviceError> {
-    text.parse::<toml::Table>().map_err(|e| DeviceError::Syntax(e.to_string()))
+    text.parse::<toml::Table>()
+        .map_err(|e| DeviceError::Syntax(e.to_string()))
 }
 
 /// Parses and validates device-file text.
@@ -243,12 +316,18 @@ pub fn scenario_from_table(root: &toml::Table) -> Result<Scenario, DeviceError> 
 
     let name = r
         .string("name")?
-        .ok_or_else(|| DeviceError::Missing { key: "name".into(), reason: "every device needs a name".into() })?
+        .ok_or_else(|| DeviceError::Missing {
+            key: "name".into(),
+            reason: "every device needs a name".into(),
+        })?
         .to_string();
-    let arch_name = r.string("architecture")?.ok_or_else(|| DeviceError::Missing {
-        key: "architecture".into(),
-        reason: "one of bulk, thin-body, double-gate, tri-gate, gate-all-around, capped-fin".into(),
-    })?;
+    let arch_name = r
+        .string("architecture")?
+        .ok_or_else(|| DeviceError::Missing {
+            key: "architecture".into(),
+            reason: "one of bulk, thin-body, double-gate, tri-gate, gate-all-around, capped-fin"
+                .into(),
+        })?;
     let architecture = Architecture::from_name(arch_name).ok_or_else(|| {
         invalid(
             "architecture",
@@ -265,10 +344,22 @@ pub fn scenario_from_table(root: &toml::Table) -> Result<Scenario, DeviceError> 
     let polarity = match r.string("polarity")?.unwrap_or("n") {
         "n" => Polarity::N,
         "p" => Polarity::P,
-        other => return Err(invalid("polarity", format!("\"{other}\""), "must be \"n\" or \"p\"")),
+        other => {
+            return Err(invalid(
+                "polarity",
+                format!("\"{other}\""),
+                "must be \"n\" or \"p\"",
+            ))
+        }
     };
     let s = polarity.sign();
-    let temperature_k = in_range("temperature_K", r.number("temperature_K")?.unwrap_or(300.0), 50.0, 600.0, "K")?;
+    let temperature_k = in_range(
+        "temperature_K",
+        r.number("temperature_K")?.unwrap_or(300.0),
+        50.0,
+        600.0,
+        "K",
+    )?;
 
     // Geometry.
     let arch = architecture;
@@ -276,8 +367,14 @@ pub fn scenario_from_table(root: &toml::Table) -> Result<Scenario, DeviceError> 
         match key {
             "body_thickness_nm" => arch != Architecture::Bulk,
             "fin_height_nm" | "fin_pitch_nm" => arch.is_fin(),
-            "box_thickness_nm" => matches!(arch, Architecture::ThinBody | Architecture::TriGate | Architecture::CappedFin),
-            "box_material" => matches!(arch, Architecture::ThinBody | Architecture::TriGate | Architecture::CappedFin),
+            "box_thickness_nm" => matches!(
+                arch,
+                Architecture::ThinBody | Architecture::TriGate | Architecture::CappedFin
+            ),
+            "box_material" => matches!(
+                arch,
+                Architecture::ThinBody | Architecture::TriGate | Architecture::CappedFin
+            ),
             "junction_depth_nm" | "substrate_depth_nm" => arch == Architecture::Bulk,
             "cap_thickness_nm" | "cap_material" => arch == Architecture::CappedFin,
             _ => true,
@@ -285,7 +382,9 @@ pub fn scenario_from_table(root: &toml::Table) -> Result<Scenario, DeviceError> 
     };
     for key in TABLE_KEYS[0].1 {
         if r.given(&format!("geometry.{key}")) && !uses(key) {
-            warnings.push(format!("geometry.{key} has no effect for architecture {arch}"));
+            warnings.push(format!(
+                "geometry.{key} has no effect for architecture {arch}"
+            ));
         }
     }
     let g = |key: &str, default: f64| -> Result<f64, DeviceError> {
@@ -294,27 +393,42 @@ pub fn scenario_from_table(root: &toml::Table) -> Result<Scenario, DeviceError> 
     };
     let gate_length_nm = positive(
         "geometry.gate_length_nm",
-        r.required_number("geometry.gate_length_nm", "the gate length is what gatehold studies")?,
+        r.required_number(
+            "geometry.gate_length_nm",
+            "the gate length is what gatehold studies",
+        )?,
     )?;
     let body_thickness_nm = if arch == Architecture::Bulk {
-        r.number("geometry.body_thickness_nm")?.unwrap_or(0.0).max(0.0)
+        r.number("geometry.body_thickness_nm")?
+            .unwrap_or(0.0)
+            .max(0.0)
     } else {
         positive(
             "geometry.body_thickness_nm",
-            r.required_number("geometry.body_thickness_nm", &format!("{arch} needs its body (or fin) thickness"))?,
+            r.required_number(
+                "geometry.body_thickness_nm",
+                &format!("{arch} needs its body (or fin) thickness"),
+            )?,
         )?
     };
     let fin_height_nm = if arch.is_fin() {
         positive(
             "geometry.fin_height_nm",
-            r.required_number("geometry.fin_height_nm", &format!("{arch} needs the fin or wire height"))?,
+            r.required_number(
+                "geometry.fin_height_nm",
+                &format!("{arch} needs the fin or wire height"),
+            )?,
         )?
     } else {
         r.number("geometry.fin_height_nm")?.unwrap_or(0.0)
     };
 
     // Gate stack.
-    let layers = root.get("gate_stack").and_then(|v| v.as_array()).cloned().unwrap_or_default();
+    let layers = root
+        .get("gate_stack")
+        .and_then(|v| v.as_array())
+        .cloned()
+        .unwrap_or_default();
     if layers.is_empty() {
         return Err(DeviceError::Missing {
             key: "gate_stack".into(),
@@ -348,20 +462,38 @@ pub fn scenario_from_table(root: &toml::Table) -> Result<Scenario, DeviceError> 
             }
             (None, Some(e)) => (format!("eps={e}"), in_range(&ek, e, 1.0, 1000.0, "")?),
             (Some(_), Some(_)) => {
-                return Err(invalid(&ek, eps.unwrap(), "give either material or relative_permittivity, not both"))
+                return Err(invalid(
+                    &ek,
+                    eps.unwrap(),
+                    "give either material or relative_permittivity, not both",
+                ))
             }
             (None, None) => {
-                return Err(DeviceError::Missing { key: mk, reason: "each layer needs a material or a relative_permittivity".into() })
+                return Err(DeviceError::Missing {
+                    key: mk,
+                    reason: "each layer needs a material or a relative_permittivity".into(),
+                })
             }
         };
-        let thickness_nm = positive(&tk, get_num("thickness_nm", &tk)?.ok_or_else(|| DeviceError::Missing {
-            key: tk.clone(),
-            reason: "each layer needs its thickness".into(),
-        })?)?;
+        let thickness_nm = positive(
+            &tk,
+            get_num("thickness_nm", &tk)?.ok_or_else(|| DeviceError::Missing {
+                key: tk.clone(),
+                reason: "each layer needs its thickness".into(),
+            })?,
+        )?;
         if thickness_nm < 0.1 {
-            return Err(invalid(&tk, thickness_nm, "thinner than 0.1 nm: below one atomic layer, the mesh cannot resolve it"));
+            return Err(invalid(
+                &tk,
+                thickness_nm,
+                "thinner than 0.1 nm: below one atomic layer, the mesh cannot resolve it",
+            ));
         }
-        stack.push(StackLayer { material, eps_r, thickness_nm });
+        stack.push(StackLayer {
+            material,
+            eps_r,
+            thickness_nm,
+        });
     }
     let stack_t: f64 = stack.iter().map(|l| l.thickness_nm).sum();
 
@@ -391,21 +523,30 @@ pub fn scenario_from_table(root: &toml::Table) -> Result<Scenario, DeviceError> 
         return Err(invalid(
             "geometry.junction_depth_nm",
             geometry.junction_depth_nm,
-            format!("must be shallower than geometry.substrate_depth_nm = {}", geometry.substrate_depth_nm),
+            format!(
+                "must be shallower than geometry.substrate_depth_nm = {}",
+                geometry.substrate_depth_nm
+            ),
         ));
     }
     if arch.is_fin() && geometry.fin_pitch_nm < body_thickness_nm + 2.0 * stack_t {
         return Err(invalid(
             "geometry.fin_pitch_nm",
             geometry.fin_pitch_nm,
-            format!("narrower than the fin plus its gate stack ({} nm)", body_thickness_nm + 2.0 * stack_t),
+            format!(
+                "narrower than the fin plus its gate stack ({} nm)",
+                body_thickness_nm + 2.0 * stack_t
+            ),
         ));
     }
 
     // Gate.
     let workfunction_ev = in_range(
         "gate.workfunction_eV",
-        r.required_number("gate.workfunction_eV", "the gate work function sets the threshold")?,
+        r.required_number(
+            "gate.workfunction_eV",
+            "the gate work function sets the threshold",
+        )?,
         3.0,
         6.5,
         "eV",
@@ -419,38 +560,83 @@ pub fn scenario_from_table(root: &toml::Table) -> Result<Scenario, DeviceError> 
     }
     let gate = Gate {
         workfunction_ev,
-        back_workfunction_ev: in_range("gate.back_workfunction_eV", r.number("gate.back_workfunction_eV")?.unwrap_or(5.17), 3.0, 6.5, "eV")?,
-        back_bias_v: in_range("gate.back_bias_V", r.number("gate.back_bias_V")?.unwrap_or(0.0), -20.0, 20.0, "V")?,
+        back_workfunction_ev: in_range(
+            "gate.back_workfunction_eV",
+            r.number("gate.back_workfunction_eV")?.unwrap_or(5.17),
+            3.0,
+            6.5,
+            "eV",
+        )?,
+        back_bias_v: in_range(
+            "gate.back_bias_V",
+            r.number("gate.back_bias_V")?.unwrap_or(0.0),
+            -20.0,
+            20.0,
+            "V",
+        )?,
     };
 
     // Doping.
     let channel_cm3 = r.number("doping.channel_cm3")?.unwrap_or(1e15);
     if !(channel_cm3 == 0.0 || (1e10..=5e20).contains(&channel_cm3)) {
-        return Err(invalid("doping.channel_cm3", channel_cm3, "must be 0 (undoped) or between 1e10 and 5e20 cm^-3"));
+        return Err(invalid(
+            "doping.channel_cm3",
+            channel_cm3,
+            "must be 0 (undoped) or between 1e10 and 5e20 cm^-3",
+        ));
     }
-    let source_drain_cm3 = in_range("doping.source_drain_cm3", r.number("doping.source_drain_cm3")?.unwrap_or(1e20), 1e17, 5e21, "cm^-3")?;
+    let source_drain_cm3 = in_range(
+        "doping.source_drain_cm3",
+        r.number("doping.source_drain_cm3")?.unwrap_or(1e20),
+        1e17,
+        5e21,
+        "cm^-3",
+    )?;
     if source_drain_cm3 <= 10.0 * channel_cm3 {
         return Err(invalid(
             "doping.source_drain_cm3",
             source_drain_cm3,
-            format!("must exceed the channel doping ({channel_cm3:e} cm^-3) tenfold to form junctions"),
+            format!(
+                "must exceed the channel doping ({channel_cm3:e} cm^-3) tenfold to form junctions"
+            ),
         ));
     }
     let junction_offset_nm = r.number("doping.junction_offset_nm")?.unwrap_or(0.0);
     if junction_offset_nm >= 0.5 * gate_length_nm {
-        return Err(invalid("doping.junction_offset_nm", junction_offset_nm, format!("overlaps of both junctions would meet under a {gate_length_nm} nm gate")));
+        return Err(invalid(
+            "doping.junction_offset_nm",
+            junction_offset_nm,
+            format!("overlaps of both junctions would meet under a {gate_length_nm} nm gate"),
+        ));
     }
     if -junction_offset_nm >= geometry.source_drain_length_nm {
-        return Err(invalid("doping.junction_offset_nm", junction_offset_nm, "underlap longer than the source/drain silicon"));
+        return Err(invalid(
+            "doping.junction_offset_nm",
+            junction_offset_nm,
+            "underlap longer than the source/drain silicon",
+        ));
     }
-    let junction_gradient_nm_per_decade = r.number("doping.junction_gradient_nm_per_decade")?.unwrap_or(0.0);
+    let junction_gradient_nm_per_decade = r
+        .number("doping.junction_gradient_nm_per_decade")?
+        .unwrap_or(0.0);
     if !(0.0..=20.0).contains(&junction_gradient_nm_per_decade) {
-        return Err(invalid("doping.junction_gradient_nm_per_decade", junction_gradient_nm_per_decade, "must be 0 (abrupt) or up to 20 nm/decade"));
+        return Err(invalid(
+            "doping.junction_gradient_nm_per_decade",
+            junction_gradient_nm_per_decade,
+            "must be 0 (abrupt) or up to 20 nm/decade",
+        ));
     }
-    let doping = Doping { channel_cm3, source_drain_cm3, junction_offset_nm, junction_gradient_nm_per_decade };
+    let doping = Doping {
+        channel_cm3,
+        source_drain_cm3,
+        junction_offset_nm,
+        junction_gradient_nm_per_decade,
+    };
 
     // Bias: defaults mirrored for p-channel devices.
-    let b = |k: &str, default: f64| -> Result<f64, DeviceError> { Ok(r.number(&format!("bias.{k}"))?.unwrap_or(default)) };
+    let b = |k: &str, default: f64| -> Result<f64, DeviceError> {
+        Ok(r.number(&format!("bias.{k}"))?.unwrap_or(default))
+    };
     let bias = Bias {
         vds_lin_v: b("vds_lin_V", 0.05 * s)?,
         vds_sat_v: b("vds_sat_V", 0.8 * s)?,
@@ -459,54 +645,134 @@ pub fn scenario_from_table(root: &toml::Table) -> Result<Scenario, DeviceError> 
         vgs_step_v: b("vgs_step_V", 0.02)?,
         off_vgs_v: b("off_vgs_V", 0.0)?,
     };
-    for (k, v) in [("bias.vds_lin_V", bias.vds_lin_v), ("bias.vds_sat_V", bias.vds_sat_v)] {
+    for (k, v) in [
+        ("bias.vds_lin_V", bias.vds_lin_v),
+        ("bias.vds_sat_V", bias.vds_sat_v),
+    ] {
         if v * s <= 0.0 || v.abs() > 5.0 {
             return Err(invalid(
                 k,
                 v,
-                if s > 0.0 { "an n-channel drain bias must be above 0 and at most 5 V" } else { "a p-channel drain bias must be below 0 and at least -5 V" },
+                if s > 0.0 {
+                    "an n-channel drain bias must be above 0 and at most 5 V"
+                } else {
+                    "a p-channel drain bias must be below 0 and at least -5 V"
+                },
             ));
         }
     }
     if bias.vds_sat_v.abs() <= bias.vds_lin_v.abs() {
-        return Err(invalid("bias.vds_sat_V", bias.vds_sat_v, format!("must be larger in magnitude than bias.vds_lin_V = {}", bias.vds_lin_v)));
+        return Err(invalid(
+            "bias.vds_sat_V",
+            bias.vds_sat_v,
+            format!(
+                "must be larger in magnitude than bias.vds_lin_V = {}",
+                bias.vds_lin_v
+            ),
+        ));
     }
     if bias.vgs_step_v <= 0.0 || bias.vgs_step_v > 0.2 {
-        return Err(invalid("bias.vgs_step_V", bias.vgs_step_v, "must be above 0 and at most 0.2 V (SS needs several points per decade)"));
+        return Err(invalid(
+            "bias.vgs_step_V",
+            bias.vgs_step_v,
+            "must be above 0 and at most 0.2 V (SS needs several points per decade)",
+        ));
     }
     if bias.vgs_stop_v <= bias.vgs_start_v {
-        return Err(invalid("bias.vgs_stop_V", bias.vgs_stop_v, format!("must be above bias.vgs_start_V = {} (the range is empty or reversed)", bias.vgs_start_v)));
+        return Err(invalid(
+            "bias.vgs_stop_V",
+            bias.vgs_stop_v,
+            format!(
+                "must be above bias.vgs_start_V = {} (the range is empty or reversed)",
+                bias.vgs_start_v
+            ),
+        ));
     }
     if bias.vgs_start_v < -5.0 || bias.vgs_stop_v > 5.0 {
-        return Err(invalid("bias.vgs_start_V", bias.vgs_start_v, "gate sweep must stay within -5 V to 5 V"));
+        return Err(invalid(
+            "bias.vgs_start_V",
+            bias.vgs_start_v,
+            "gate sweep must stay within -5 V to 5 V",
+        ));
     }
     let npts = (bias.vgs_stop_v - bias.vgs_start_v) / bias.vgs_step_v;
     if npts > 2000.0 {
-        return Err(invalid("bias.vgs_step_V", bias.vgs_step_v, format!("gives {} gate voltages; at most 2000", npts as usize)));
+        return Err(invalid(
+            "bias.vgs_step_V",
+            bias.vgs_step_v,
+            format!("gives {} gate voltages; at most 2000", npts as usize),
+        ));
     }
     if npts < 4.0 {
-        return Err(invalid("bias.vgs_step_V", bias.vgs_step_v, "gives fewer than 5 gate voltages"));
+        return Err(invalid(
+            "bias.vgs_step_V",
+            bias.vgs_step_v,
+            "gives fewer than 5 gate voltages",
+        ));
     }
     if bias.off_vgs_v < bias.vgs_start_v - 1e-12 || bias.off_vgs_v > bias.vgs_stop_v + 1e-12 {
-        return Err(invalid("bias.off_vgs_V", bias.off_vgs_v, format!("must lie within the gate sweep {} to {} V", bias.vgs_start_v, bias.vgs_stop_v)));
+        return Err(invalid(
+            "bias.off_vgs_V",
+            bias.off_vgs_v,
+            format!(
+                "must lie within the gate sweep {} to {} V",
+                bias.vgs_start_v, bias.vgs_stop_v
+            ),
+        ));
     }
 
     let extraction = Extraction {
-        current_criterion_a: positive("extraction.current_criterion_A", r.number("extraction.current_criterion_A")?.unwrap_or(1e-7))?,
-        mobility_cm2_per_vs: in_range("extraction.mobility_cm2_per_Vs", r.number("extraction.mobility_cm2_per_Vs")?.unwrap_or(200.0), 1.0, 1e5, "cm^2/Vs")?,
+        current_criterion_a: positive(
+            "extraction.current_criterion_A",
+            r.number("extraction.current_criterion_A")?.unwrap_or(1e-7),
+        )?,
+        mobility_cm2_per_vs: in_range(
+            "extraction.mobility_cm2_per_Vs",
+            r.number("extraction.mobility_cm2_per_Vs")?.unwrap_or(200.0),
+            1.0,
+            1e5,
+            "cm^2/Vs",
+        )?,
     };
     let mesh = MeshSettings {
-        max_step_nm: in_range("mesh.max_step_nm", r.number("mesh.max_step_nm")?.unwrap_or(0.5), 0.05, 5.0, "nm")?,
-        refinement: in_range("mesh.refinement", r.number("mesh.refinement")?.unwrap_or(1.0), 1.0, 8.0, "")?,
+        max_step_nm: in_range(
+            "mesh.max_step_nm",
+            r.number("mesh.max_step_nm")?.unwrap_or(0.5),
+            0.05,
+            5.0,
+            "nm",
+        )?,
+        refinement: in_range(
+            "mesh.refinement",
+            r.number("mesh.refinement")?.unwrap_or(1.0),
+            1.0,
+            8.0,
+            "",
+        )?,
     };
     if gate_length_nm < 2.0 * mesh.max_step_nm / mesh.refinement {
-        return Err(invalid("geometry.gate_length_nm", gate_length_nm, format!("shorter than 2 mesh cells of mesh.max_step_nm = {}", mesh.max_step_nm)));
+        return Err(invalid(
+            "geometry.gate_length_nm",
+            gate_length_nm,
+            format!(
+                "shorter than 2 mesh cells of mesh.max_step_nm = {}",
+                mesh.max_step_nm
+            ),
+        ));
     }
     if gate_length_nm > 100_000.0 {
-        return Err(invalid("geometry.gate_length_nm", gate_length_nm, "longer than 100 um"));
+        return Err(invalid(
+            "geometry.gate_length_nm",
+            gate_length_nm,
+            "longer than 100 um",
+        ));
     }
     if arch != Architecture::Bulk && body_thickness_nm < 1.0 {
-        return Err(invalid("geometry.body_thickness_nm", body_thickness_nm, "below 1 nm; classical carriers are meaningless there"));
+        return Err(invalid(
+            "geometry.body_thickness_nm",
+            body_thickness_nm,
+            "below 1 nm; classical carriers are meaningless there",
+        ));
     }
     if arch != Architecture::Bulk && body_thickness_nm < 5.0 {
         warnings.push(format!(
@@ -563,7 +829,10 @@ workfunction_eV = 4.6
         let e = parse_device(&MIN.replace("gate_length_nm", "gate_lenght_nm")).unwrap_err();
         assert_eq!(
             e,
-            DeviceError::UnknownKey { key: "geometry.gate_lenght_nm".into(), suggestion: Some("geometry.gate_length_nm".into()) }
+            DeviceError::UnknownKey {
+                key: "geometry.gate_lenght_nm".into(),
+                suggestion: Some("geometry.gate_length_nm".into())
+            }
         );
         let e = parse_device(&format!("temprature_K = 300\n{MIN}")).unwrap_err();
         assert!(e.to_string().contains("temperature_K"), "{e}");
@@ -571,13 +840,24 @@ workfunction_eV = 4.6
 
     #[test]
     fn bad_values_name_key_value_and_reason() {
-        let e = parse_device(&MIN.replace("thickness_nm = 1.0", "thickness_nm = -1.0")).unwrap_err();
-        assert!(matches!(&e, DeviceError::Invalid { key, .. } if key == "gate_stack.0.thickness_nm"), "{e}");
-        let e = parse_device(&format!("{MIN}[bias]\nvgs_start_V = 0.5\nvgs_stop_V = 0.1\n")).unwrap_err();
-        assert!(e.to_string().contains("bias.vgs_stop_V") && e.to_string().contains("reversed"), "{e}");
+        let e =
+            parse_device(&MIN.replace("thickness_nm = 1.0", "thickness_nm = -1.0")).unwrap_err();
+        assert!(
+            matches!(&e, DeviceError::Invalid { key, .. } if key == "gate_stack.0.thickness_nm"),
+            "{e}"
+        );
+        let e = parse_device(&format!(
+            "{MIN}[bias]\nvgs_start_V = 0.5\nvgs_stop_V = 0.1\n"
+        ))
+        .unwrap_err();
+        assert!(
+            e.to_string().contains("bias.vgs_stop_V") && e.to_string().contains("reversed"),
+            "{e}"
+        );
         let e = parse_device(&format!("{MIN}[doping]\nchannel_cm3 = 1e24\n")).unwrap_err();
         assert!(e.to_string().contains("doping.channel_cm3"), "{e}");
-        let e = parse_device(&MIN.replace("gate_length_nm = 25", "gate_length_nm = 0.6")).unwrap_err();
+        let e =
+            parse_device(&MIN.replace("gate_length_nm = 25", "gate_length_nm = 0.6")).unwrap_err();
         assert!(e.to_string().contains("2 mesh cells"), "{e}");
         let e = parse_device(&MIN.replace("\"SiO2\"", "\"SiO3\"")).unwrap_err();
         assert!(e.to_string().contains("SiO2"), "{e}");
@@ -587,7 +867,10 @@ workfunction_eV = 4.6
 
     #[test]
     fn p_channel_defaults_are_mirrored_and_undoped_body_is_valid() {
-        let s = parse_device(&format!("polarity = \"p\"\n{MIN}[doping]\nchannel_cm3 = 0\n")).unwrap();
+        let s = parse_device(&format!(
+            "polarity = \"p\"\n{MIN}[doping]\nchannel_cm3 = 0\n"
+        ))
+        .unwrap();
         assert_eq!(s.bias.vds_lin_v, -0.05);
         assert_eq!(s.bias.vds_sat_v, -0.8);
         assert_eq!(s.doping.channel_cm3, 0.0);
@@ -595,7 +878,11 @@ workfunction_eV = 4.6
 
     #[test]
     fn unused_keys_warn() {
-        let s = parse_device(&MIN.replace("body_thickness_nm = 8", "body_thickness_nm = 8\njunction_depth_nm = 10")).unwrap();
+        let s = parse_device(&MIN.replace(
+            "body_thickness_nm = 8",
+            "body_thickness_nm = 8\njunction_depth_nm = 10",
+        ))
+        .unwrap();
         assert!(s.warnings.iter().any(|w| w.contains("junction_depth_nm")));
     }
 }

@@ -41,7 +41,10 @@ impl Architecture {
 
     /// Solved as a 2D along-channel cross-section.
     pub fn is_planar(&self) -> bool {
-        matches!(self, Architecture::Bulk | Architecture::ThinBody | Architecture::DoubleGate)
+        matches!(
+            self,
+            Architecture::Bulk | Architecture::ThinBody | Architecture::DoubleGate
+        )
     }
 
     /// Fin or wire: analysed through the cross-section perpendicular to the channel.
@@ -146,7 +149,9 @@ impl Bias {
     /// Gate voltages from start to stop in steps (stop included when it falls on the grid).
     pub fn gate_voltages(&self) -> Vec<f64> {
         let n = ((self.vgs_stop_v - self.vgs_start_v) / self.vgs_step_v + 1e-9).floor() as usize;
-        (0..=n).map(|k| self.vgs_start_v + k as f64 * self.vgs_step_v).collect()
+        (0..=n)
+            .map(|k| self.vgs_start_v + k as f64 * self.vgs_step_v)
+            .collect()
     }
 }
 
@@ -192,7 +197,12 @@ impl Scenario {
 
     /// Equivalent oxide thickness, nm: 3.9 sum(t_i / eps_i).
     pub fn eot_nm(&self) -> f64 {
-        crate::physics::EPS_SIO2 * self.stack.iter().map(|l| l.thickness_nm / l.eps_r).sum::<f64>()
+        crate::physics::EPS_SIO2
+            * self
+                .stack
+                .iter()
+                .map(|l| l.thickness_nm / l.eps_r)
+                .sum::<f64>()
     }
 
     /// Gate oxide capacitance per area, F/cm^2 (series stack).

@@ -12,7 +12,11 @@ pub fn template(arch: Architecture) -> String {
         Architecture::GateAllAround => "body_thickness_nm = 8          # wire or sheet width\nfin_height_nm = 8              # wire or sheet height\n",
         Architecture::CappedFin => "body_thickness_nm = 8          # fin width\nfin_height_nm = 30             # fin height\ncap_thickness_nm = 10          # dielectric cap on the fin top (gate on the two sides only)\nbox_thickness_nm = 25          # buried oxide under the fin\n",
     };
-    let doping = if arch == Architecture::Bulk { "3e18" } else { "1e15" };
+    let doping = if arch == Architecture::Bulk {
+        "3e18"
+    } else {
+        "1e15"
+    };
     let wf = match arch {
         Architecture::Bulk => "4.17           # n+ poly-like gate over a doped body",
         _ => "4.61           # near-midgap metal for an undoped body",
@@ -72,7 +76,8 @@ mod tests {
     #[test]
     fn every_template_parses() {
         for a in Architecture::ALL {
-            let s = crate::device::parse_device(&template(a)).unwrap_or_else(|e| panic!("{a}: {e}"));
+            let s =
+                crate::device::parse_device(&template(a)).unwrap_or_else(|e| panic!("{a}: {e}"));
             assert_eq!(s.architecture, a);
             assert!(s.warnings.is_empty(), "{a}: {:?}", s.warnings);
         }

@@ -5,7 +5,7 @@
 //! Convention: the short-channel perturbation decays as exp(-x/lambda).
 
 use crate::device::{Architecture, Scenario};
-use crate::physics::{EPS_SI, EPS_SIO2, Q_OVER_EPS0_V_NM, PER_CM3_TO_PER_NM3, Silicon};
+use crate::physics::{Silicon, EPS_SI, EPS_SIO2, PER_CM3_TO_PER_NM3, Q_OVER_EPS0_V_NM};
 
 /// Single gate, thin body on a thick buried oxide (Yan, Ourmazd and Lee,
 /// IEEE Trans. Electron Devices 39(7), 1704, 1992): sqrt((eps_Si/eps_ox) t_Si t_ox).
@@ -46,7 +46,10 @@ pub fn natural_length(s: &Scenario) -> Option<(&'static str, f64)> {
             let si = Silicon::at(s.temperature_k);
             // A bulk body's depth of gate control is the maximum depletion width.
             let wdm = max_depletion_width_nm(&si, s.doping.channel_cm3)?;
-            Some(("yan-1992-bulk-depletion", single_gate_yan(wdm.min(s.geometry.substrate_depth_nm), eot)))
+            Some((
+                "yan-1992-bulk-depletion",
+                single_gate_yan(wdm.min(s.geometry.substrate_depth_nm), eot),
+            ))
         }
         Architecture::TriGate => Some(("colinge-2004-n3", multi_gate_colinge(t, eot, 3.0))),
         Architecture::GateAllAround => Some(("colinge-2004-n4", multi_gate_colinge(t, eot, 4.0))),

@@ -1,0 +1,35 @@
+//! Shared helpers for integration tests.
+#![allow(dead_code)]
+
+use gatehold::device::{parse_device, Scenario};
+
+/// A device from TOML text (panics with the error: tests only).
+pub fn device(text: &str) -> Scenario {
+    parse_device(text).unwrap_or_else(|e| panic!("bad test device: {e}\n{text}"))
+}
+
+/// Undoped symmetric double gate with a single SiO2 layer.
+pub fn double_gate(lg_nm: f64, tsi_nm: f64, tox_nm: f64, extra: &str) -> Scenario {
+    device(&format!(
+        r#"
+name = "dg-test"
+architecture = "double-gate"
+[geometry]
+gate_length_nm = {lg_nm}
+body_thickness_nm = {tsi_nm}
+[[gate_stack]]
+material = "SiO2"
+thickness_nm = {tox_nm}
+[gate]
+workfunction_eV = 4.61
+[doping]
+channel_cm3 = 0
+{extra}
+"#
+    ))
+}
+
+/// Relative error.
+pub fn rel(a: f64, b: f64) -> f64 {
+    ((a - b) / b).abs()
+}
