@@ -63,6 +63,9 @@ pub struct Problem {
     /// Coefficient of each y-directed edge (i,j)-(i,j+1), index `i + j * nx`.
     pub coef_y: Vec<f64>,
     pub silicon: Silicon,
+    /// 2 when this is one half of a mirror-symmetric structure (the last y
+    /// line is the symmetry plane): column integrals count the other half too.
+    pub symmetry_factor: f64,
 }
 
 impl Problem {
@@ -190,6 +193,7 @@ impl Problem {
             coef_x,
             coef_y,
             silicon,
+            symmetry_factor: 1.0,
         }
     }
 
@@ -281,7 +285,8 @@ impl Problem {
     }
 
     /// Integral over the semiconductor of column `i` of `f(psi)`, in units of f times nm:
-    /// each node weighs its semiconductor box area divided by the box's x-width.
+    /// each node weighs its semiconductor box area divided by the box's x-width
+    /// (times [`Problem::symmetry_factor`]).
     pub fn column_integral(&self, psi: &[f64], i: usize, f: impl Fn(f64) -> f64) -> f64 {
         let w = self.box_width_x(i);
         let mut sum = 0.0;
@@ -292,7 +297,7 @@ impl Problem {
                 sum += a / w * f(psi[k]);
             }
         }
-        sum
+        sum * self.symmetry_factor
     }
 }
 

@@ -34,5 +34,6 @@ pub mod physics;
 pub mod run;
 pub mod solve;
 pub mod structure;
+pub mod summary;
 pub mod theory;
 pub mod transport;

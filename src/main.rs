@@ -1,19 +1,106 @@
-fn main() {
-    let path = std::env::args().nth(1).unwrap();
-    let s = gatehold::device::load_device(std::path::Path::new(&path)).unwrap();
-    let t = std::time::Instant::now();
-    let sol = gatehold::run::run_device(&s, &gatehold::run::Silent).unwrap();
-    for sw in [&sol.lin, &sol.sat] {
-        let st: Vec<usize> = sw.points.iter().map(|p| p.report.steps).collect();
-        println!(
-            "vds {} steps {:?} newton {} fact {}",
-            sw.vds_v, st, sw.newton_steps, sw.factorisations
-        );
+//! The `gatehold` command: parses arguments, dispatches to the library and
+//! turns errors into exit codes (0 ok, 1 bad input or failure, 2 finished
+//! with figures missing because a solve did not converge or a range was short).
+
+use std::path::PathBuf;
+use std::process::ExitCode;
+
+use anyhow::{Context, Result};
+use clap::{Parser, Subcommand};
+use gatehold::device::{load_device, template, Architecture};
+use gatehold::run::{run_device, Observer, Silent};
+
+#[derive(Parser)]
+#[command(name = "gatehold", version, about = "How short can the gate be? 2D electrostatic integrity of short-gate transistors (screening level)")]
+struct Cli {
+    #[command(subcommand)]
+    command: Command,
+}
+
+#[derive(Subcommand)]
+enum Command {
+    /// Solve one device: V_t, SS, DIBL, barrier lowering, roll-off.
+    Run {
+        /// Device file (TOML).
+        device: PathBuf,
+        /// Print one JSON object instead of the summary.
+        #[arg(long)]
+        json: bool,
+        /// Write the I_D-V_G curves to this CSV file.
+        #[arg(long, value_name = "FILE.csv")]
+        curves: Option<PathBuf>,
+        /// No progress on stderr.
+        #[arg(long)]
+        quiet: bool,
+    },
+    /// Print a commented device file to start from.
+    Template {
+        /// bulk | thin-body | double-gate | tri-gate | gate-all-around | capped-fin
+        architecture: String,
+    },
+}
+
+/// Bias-point progress on stderr.
+struct Dots {
+    enabled: bool,
+    count: std::sync::atomic::AtomicUsize,
+}
+
+impl Observer for Dots {
+    fn bias_point(&self, _vds: f64, _vgs: f64, converged: bool) {
+        if self.enabled {
+            let n = self.count.fetch_add(1, std::sync::atomic::Ordering::Relaxed) + 1;
+            eprint!("{}", if converged { "." } else { "x" });
+            if n % 60 == 0 {
+                eprintln!();
+            }
+        }
     }
-    eprintln!(
-        "{:?} nodes {} unknowns {}",
-        t.elapsed(),
-        sol.report.nodes,
-        sol.report.unknowns
-    );
+}
+
+fn run(cli: Cli) -> Result<u8> {
+    match cli.command {
+        Command::Run { device, json, curves, quiet } => {
+            let s = load_device(&device).with_context(|| format!("device file {}", device.display()))?;
+            use std::io::IsTerminal;
+            let dots = Dots { enabled: !quiet && !json && std::io::stderr().is_terminal(), count: 0.into() };
+            let observer: &dyn Observer = if dots.enabled { &dots } else { &Silent };
+            let sol = run_device(&s, observer)?;
+            if dots.enabled {
+                eprintln!();
+            }
+            let r = &sol.report;
+            if json {
+                println!("{}", serde_json::to_string_pretty(r)?);
+            } else {
+                print!("{}", gatehold::summary::device_text(r));
+            }
+            if let Some(path) = curves {
+                std::fs::write(&path, gatehold::summary::curves_csv(r))
+                    .with_context(|| format!("writing {}", path.display()))?;
+            }
+            Ok(if r.problems.is_empty() { 0 } else { 2 })
+        }
+        Command::Template { architecture } => {
+            let arch = Architecture::from_name(&architecture).with_context(|| {
+                format!(
+                    "unknown architecture \"{architecture}\"; known: {}",
+                    Architecture::ALL.map(|a| a.name()).join(", ")
+                )
+            })?;
+            print!("{}", template::template(arch));
+            Ok(0)
+        }
+    }
+}
+
+fn main() -> ExitCode {
+    let cli = Cli::parse();
+    match run(cli) {
+        Ok(code) => ExitCode::from(code),
+        Err(e) => {
+            eprintln!("error: {e:#}");
+            ExitCode::from(1)
+        }
+    }
 }

@@ -7,6 +7,7 @@ use crate::discretize::Problem;
 use crate::extract::{self, Barrier, Curve, ExtractError};
 use crate::long_channel::long_channel;
 use crate::solve::{
+    Anderson,
     apply_boundaries, neutral_guess, NewtonOptions, PoissonSolver, QuasiFermi, SolveError,
     SolveReport,
 };
@@ -23,6 +24,8 @@ calibrated device simulation and measured silicon.";
 
 /// Convergence of the channel carrier's quasi-Fermi level between iterations, V (MODEL.md section 4).
 pub const QF_TOL_V: f64 = 1e-7;
+/// History kept by the Anderson acceleration of the potential/quasi-Fermi coupling.
+const ANDERSON_DEPTH: usize = 5;
 /// Above this update (V) the next step refactorises the Jacobian.
 const REFACTOR_ABOVE_V: f64 = 1e-2;
 /// Largest drain-bias step while ramping, V.
@@ -119,13 +122,22 @@ impl<'a> DeviceSolver<'a> {
         let mut t = quasi_fermi(p, psi, sign, vds, mu);
         let mut last = (f64::INFINITY, f64::INFINITY, f64::INFINITY);
         let mut refactor = true;
+        let mut accel = Anderson::new(ANDERSON_DEPTH);
+        let mut before = psi.to_vec();
         for step in 1..=self.opts.max_steps {
             let qf = levels(&t, sign);
+            before.copy_from_slice(psi);
             let st = self.solver.step(p, psi, &qf, self.opts.clamp_v, refactor)?;
-            // Refactorise while Newton is far from the solution or a reused
-            // factorisation stops contracting (MODEL.md: reuse while Newton contracts).
-            refactor =
-                st.max_update_v > REFACTOR_ABOVE_V || (!refactor && st.max_update_v > 0.5 * last.0);
+            if refactor {
+                accel.reset();
+            } else {
+                accel.mix(&before, psi);
+            }
+            // Refactorise while Newton is far from the solution or the
+            // iteration stops contracting; near the solution the slow part is
+            // the quasi-Fermi coupling, which a fresh Jacobian does not speed
+            // up (Anderson mixing does).
+            refactor = st.max_update_v > REFACTOR_ABOVE_V || st.max_update_v > 1.5 * last.0;
             let t_new = quasi_fermi(p, psi, sign, vds, mu);
             let dphi = t_new
                 .phi

@@ -136,6 +136,8 @@ pub struct AlongChannel {
     /// Silicon from y = 0 to `silicon_bottom_nm`.
     pub silicon_bottom_nm: f64,
     pub doping: DopingProfile,
+    /// Double gate: only the upper half is meshed; the structure mirrors about this y (nm).
+    pub mirror_plane_nm: Option<f64>,
 }
 
 struct VerticalLayout {
@@ -171,14 +173,9 @@ fn vertical_layout(s: &Scenario) -> VerticalLayout {
     let tsi = g.body_thickness_nm;
     match s.architecture {
         Architecture::DoubleGate => {
-            hard.push(tsi);
-            hard.push(0.5 * tsi); // the symmetry plane is a mesh line
-            fine.push((tsi, FINE_INTERFACE_NM));
-            for (_, y1, _) in stack_layers_down(s, tsi, true) {
-                hard.push(y1);
-            }
-            fine.push((tsi + t, FINE_OTHER_NM));
-            hard.push(tsi + t + g.gate_height_nm);
+            // Mirror-symmetric about the body's mid-plane: the upper half is
+            // meshed, the mid-plane is its last line (zero normal field).
+            hard.push(0.5 * tsi);
         }
         Architecture::ThinBody => {
             hard.push(tsi);
@@ -305,8 +302,14 @@ pub fn along_channel(s: &Scenario) -> AlongChannel {
         },
         |x0, x1, y0, y1| doping.net_avg(x0, x1, y0, y1),
     );
+    let mut problem = problem;
+    let mirror_plane_nm = mirror_plane(s);
+    if mirror_plane_nm.is_some() {
+        problem.symmetry_factor = 2.0;
+    }
     let silicon_bottom_nm = match s.architecture {
         Architecture::Bulk => g.substrate_depth_nm,
+        Architecture::DoubleGate => 0.5 * g.body_thickness_nm,
         _ => g.body_thickness_nm,
     };
     AlongChannel {
@@ -315,7 +318,13 @@ pub fn along_channel(s: &Scenario) -> AlongChannel {
         gate_end_nm: sd + l,
         silicon_bottom_nm,
         doping,
+        mirror_plane_nm,
     }
+}
+
+/// The symmetry plane of a double gate (only its upper half is solved).
+fn mirror_plane(s: &Scenario) -> Option<f64> {
+    (s.architecture == Architecture::DoubleGate).then_some(0.5 * s.geometry.body_thickness_nm)
 }
 
 /// The 1D long-channel column at mid-channel (a one-cell-wide strip with
@@ -331,14 +340,18 @@ pub fn long_channel_column(s: &Scenario) -> Problem {
     let bulk = s.architecture == Architecture::Bulk;
     let doping = DopingProfile::of(s);
     let x = Line::uniform(0.0, 1.0, 1);
-    Problem::new(
+    let mut p = Problem::new(
         x,
         y,
         Silicon::at(s.temperature_k),
         |_, yc| planar_material(s, 0.5, yc, (0.0, 1.0)),
         |_, j| (bulk && j == ny - 1).then_some(SUBSTRATE),
         |_, _, _, _| -doping.sign * doping.nch,
-    )
+    );
+    if mirror_plane(s).is_some() {
+        p.symmetry_factor = 2.0;
+    }
+    p
 }
 
 #[cfg(test)]
