@@ -23,8 +23,19 @@ fn scenario(arch: &str, geometry: &str, stack: &str, extra: &str) -> Scenario {
 }
 
 fn scenario_wf(arch: &str, geometry: &str, stack: &str, extra: &str, wf_ev: f64) -> Scenario {
+    scenario_pol(arch, "n", geometry, stack, extra, wf_ev)
+}
+
+fn scenario_pol(
+    arch: &str,
+    polarity: &str,
+    geometry: &str,
+    stack: &str,
+    extra: &str,
+    wf_ev: f64,
+) -> Scenario {
     let text = format!(
-        "name = \"t-{arch}\"\narchitecture = \"{arch}\"\n[geometry]\ngate_length_nm = 30\n{geometry}\n{stack}\n\
+        "name = \"t-{arch}\"\narchitecture = \"{arch}\"\npolarity = \"{polarity}\"\n[geometry]\ngate_length_nm = 30\n{geometry}\n{stack}\n\
          [gate]\nworkfunction_eV = {wf_ev}\n{extra}"
     );
     parse_device(&text).unwrap_or_else(|e| panic!("{e}\n{text}"))
@@ -403,6 +414,30 @@ fn fin_prediction_long_channel_and_theory() {
         assert!(p.dibl_mv_per_v > 0.0 && p.ss_mv_per_dec > p.ss_long_mv_per_dec);
         assert!(p.roll_off_sat_v < p.roll_off_lin_v && p.roll_off_lin_v < 0.0);
     }
+    // A p-channel device is the mirror image (MODEL.md section 3): donors, work function
+    // mirrored about the midgap level 4.61 eV, so V_t flips sign and SS, DIBL, lambda stay.
+    let gaa_p = predict_fin(&scenario_pol(
+        "gate-all-around",
+        "p",
+        geo,
+        SIO2_1NM,
+        extra,
+        4.62,
+    ))
+    .unwrap();
+    println!(
+        "GAA p-channel: V_t,long {:.4} V, SS_long {:.2} mV/dec",
+        gaa_p.vt_long_v, gaa_p.ss_long_mv_per_dec
+    );
+    assert!(
+        (gaa_p.vt_long_v + gaa.vt_long_v).abs() < 1e-4,
+        "{} vs {}",
+        gaa_p.vt_long_v,
+        gaa.vt_long_v
+    );
+    assert!((gaa_p.ss_long_mv_per_dec - gaa.ss_long_mv_per_dec).abs() < 0.01);
+    assert!((gaa_p.dibl_mv_per_v - gaa.dibl_mv_per_v).abs() < 1e-6);
+    assert!(gaa_p.roll_off_lin_v > 0.0 && (gaa_p.roll_off_lin_v + gaa.roll_off_lin_v).abs() < 1e-4);
     // The wire holds its channel better: shorter lambda, less DIBL.
     assert!(gaa.lambda_nm < tg.lambda_nm && gaa.dibl_mv_per_v < tg.dibl_mv_per_v);
     // And a planar scenario is refused with a typed error, not a panic.
@@ -431,6 +466,16 @@ fn planar_reports_and_bulk_depletion_depth() {
         dg.lambda_numeric_nm, dg.lambda_closed_forms
     );
     assert!(rel(dg.lambda_numeric_nm, exact) < 5e-3);
+    // Barrier for the planar short-channel estimate: positive at threshold, below V_bi.
+    let (barrier, vt, ss) = gatehold::theory::short_channel::planar_barrier_v(&scenario(
+        "double-gate",
+        "body_thickness_nm = 8",
+        SIO2_1NM,
+        "",
+    ))
+    .unwrap();
+    println!("double gate: V_bi - phi_s = {barrier:.4} V at V_t,long = {vt:.4} V, SS_long {ss:.2} mV/dec");
+    assert!(barrier > 0.0 && barrier < 0.6);
     // n+ poly-like gate over a doped body (the bulk template's 4.17 eV) so that V_t lies in the sweep.
     let bulk = scenario_wf("bulk", "", SIO2_1NM, "[doping]\nchannel_cm3 = 3e18\n", 4.17);
     let r = lambda_report(&bulk).unwrap();

@@ -13,7 +13,9 @@
 //! channel potential at the long-channel threshold. For fins and wires phi_s
 //! is taken at the leakiest point of the cross-section (the silicon node with
 //! the highest barrier, i.e. the lowest potential for electrons), from the
-//! cross-section solve at V_t,long and V = 0. Signs follow the polarity: a
+//! cross-section solve at V_t,long and V = 0; for planar devices
+//! ([`planar_barrier_v`]) at the top silicon surface of the long-channel
+//! column at V_t,long. Signs follow the polarity: a
 //! p-channel device's roll-off is positive (|V_t| falls).
 //!
 //! The model is a screening estimate; it assumes L well above lambda, and
@@ -205,6 +207,35 @@ pub fn source_drain_potential_v(s: &Scenario) -> f64 {
         0.0,
         s.polarity.sign() * s.doping.source_drain_cm3 * PER_CM3_TO_PER_NM3,
     )
+}
+
+/// V_bi - phi_s (V, polarity-signed) of a planar device: phi_s is the
+/// surface potential (top silicon node, y = 0) of the long-channel 1D column
+/// at V_t,long and V = 0; also returns V_t,long (V) and SS_long (mV/dec). For
+/// use with [`estimate`] beside the 2D along-channel solves.
+pub fn planar_barrier_v(s: &Scenario) -> Result<(f64, f64, f64), TheoryError> {
+    if !s.architecture.is_planar() {
+        return Err(TheoryError::NotApplicable {
+            what: "planar barrier".into(),
+            architecture: s.architecture,
+        });
+    }
+    let (lc, _) = crate::long_channel::long_channel(s)?;
+    let mut col =
+        crate::long_channel::Column::new(s).map_err(crate::long_channel::LongChannelError::from)?;
+    col.sheet_density(lc.vt_v, 0.0)?;
+    let p = &col.problem;
+    let j0 = p.y.index_of(0.0).ok_or_else(|| TheoryError::InvalidInput {
+        what: "silicon surface y_nm".into(),
+        value: 0.0,
+        reason: "not a mesh line".into(),
+    })?;
+    let phi_s = col.potential()[j0 * p.nx];
+    Ok((
+        s.polarity.sign() * (source_drain_potential_v(s) - phi_s),
+        lc.vt_v,
+        lc.ss_mv_per_dec,
+    ))
 }
 
 /// Predictions for a fin or wire device: long-channel V_t and SS from the
