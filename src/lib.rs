@@ -25,6 +25,7 @@
 //! each cross-section. Results rank geometries before full device simulation;
 //! they are not sign-off figures.
 
+pub mod crosssection;
 pub mod device;
 pub mod discretize;
 pub mod extract;

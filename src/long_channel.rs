@@ -117,19 +117,64 @@ impl Column {
 
     /// Long-channel I_D L / W (A) at gate voltage `vgs` and drain bias `vds`.
     pub fn current_l_over_w(&mut self, vgs: f64, vds: f64) -> Result<f64, LongChannelError> {
-        let half = 0.5 * vds;
-        let mut sum = 0.0;
-        for (t, w) in GL8 {
-            sum += w * self.sheet_density(vgs, half * (1.0 + t))?;
-        }
-        // |int_0^vds N dV| = |half| * sum
-        Ok(Q_C * self.mobility * CM2_TO_NM2 * half.abs() * sum)
+        pao_sah_current_l_over_w(self, vgs, vds)
     }
+}
+
+/// A long-channel device seen through its cross-section at uniform
+/// quasi-Fermi level: what the Pao-Sah extraction needs. Implemented by the
+/// planar [`Column`] and by the fin/wire cross-section
+/// (`crosssection::FinChannel`).
+pub trait PaoSahDevice {
+    /// Channel-carrier density at gate voltage `vgs` and channel quasi-Fermi
+    /// level `v`, integrated over the cross-section per unit device width, nm^-2.
+    fn sheet_density(&mut self, vgs: f64, v: f64) -> Result<f64, LongChannelError>;
+    /// Constant mobility, cm^2/(V s).
+    fn mobility_cm2_per_vs(&self) -> f64;
+    /// Newton steps spent so far.
+    fn newton_steps(&self) -> usize;
+}
+
+impl PaoSahDevice for Column {
+    fn sheet_density(&mut self, vgs: f64, v: f64) -> Result<f64, LongChannelError> {
+        Column::sheet_density(self, vgs, v)
+    }
+    fn mobility_cm2_per_vs(&self) -> f64 {
+        self.mobility
+    }
+    fn newton_steps(&self) -> usize {
+        self.steps
+    }
+}
+
+/// Long-channel I_D L / W (A) of any [`PaoSahDevice`]: q mu int_0^{V_DS} N_s dV
+/// by 8-point Gauss-Legendre quadrature.
+pub fn pao_sah_current_l_over_w<D: PaoSahDevice + ?Sized>(
+    dev: &mut D,
+    vgs: f64,
+    vds: f64,
+) -> Result<f64, LongChannelError> {
+    let half = 0.5 * vds;
+    let mut sum = 0.0;
+    for (t, w) in GL8 {
+        sum += w * dev.sheet_density(vgs, half * (1.0 + t))?;
+    }
+    // |int_0^vds N dV| = |half| * sum
+    Ok(Q_C * dev.mobility_cm2_per_vs() * CM2_TO_NM2 * half.abs() * sum)
 }
 
 /// V_t,long and the long-channel SS for the scenario (at V_DS,lin).
 pub fn long_channel(s: &Scenario) -> Result<(LongChannel, usize), LongChannelError> {
     let mut col = Column::new(s)?;
+    extract_long_channel(&mut col, s)
+}
+
+/// V_t,long (constant current I_cc at V_DS,lin, bias grid of `s`) and the
+/// long-channel SS of any [`PaoSahDevice`]; also returns the Newton steps spent.
+pub fn extract_long_channel<D: PaoSahDevice>(
+    col: &mut D,
+    s: &Scenario,
+) -> Result<(LongChannel, usize), LongChannelError> {
     let b = &s.bias;
     let sign = s.polarity.sign();
     let target = s.extraction.current_criterion_a;
@@ -139,14 +184,14 @@ pub fn long_channel(s: &Scenario) -> Result<(LongChannel, usize), LongChannelErr
     if sign < 0.0 {
         grid.reverse();
     }
-    let log_i = |col: &mut Column, vg: f64| -> Result<f64, LongChannelError> {
-        Ok(col.current_l_over_w(vg, vds)?.log10())
+    let log_i = |col: &mut D, vg: f64| -> Result<f64, LongChannelError> {
+        Ok(pao_sah_current_l_over_w(col, vg, vds)?.log10())
     };
     let lt = target.log10();
     let mut prev: Option<(f64, f64)> = None;
     let mut bracket = None;
     for &vg in &grid {
-        let li = log_i(&mut col, vg)?;
+        let li = log_i(col, vg)?;
         if li >= lt {
             bracket = prev.map(|p| (p, (vg, li)));
             break;
@@ -160,7 +205,7 @@ pub fn long_channel(s: &Scenario) -> Result<(LongChannel, usize), LongChannelErr
     let mut vt = va;
     for _ in 0..60 {
         vt = vb - (lb - lt) * (vb - va) / (lb - la);
-        let lv = log_i(&mut col, vt)?;
+        let lv = log_i(col, vt)?;
         if (lv - lt).abs() < 1e-10 || (vb - va).abs() < 1e-9 {
             break;
         }
@@ -184,8 +229,8 @@ pub fn long_channel(s: &Scenario) -> Result<(LongChannel, usize), LongChannelErr
     let mut v_mid = vt - sign * 0.12;
     for _ in 0..30 {
         let d = 1e-3 * sign;
-        let l0 = log_i(&mut col, v_mid)?;
-        let slope = (log_i(&mut col, v_mid + d)? - l0) / d;
+        let l0 = log_i(col, v_mid)?;
+        let slope = (log_i(col, v_mid + d)? - l0) / d;
         let step = (lt - 2.0 - l0) / slope;
         v_mid += step;
         if step.abs() < 1e-6 {
@@ -193,8 +238,8 @@ pub fn long_channel(s: &Scenario) -> Result<(LongChannel, usize), LongChannelErr
         }
     }
     let h = 2e-3;
-    let slope = (log_i(&mut col, v_mid + h)? - log_i(&mut col, v_mid - h)?) / (2.0 * h);
-    let steps = col.steps;
+    let slope = (log_i(col, v_mid + h)? - log_i(col, v_mid - h)?) / (2.0 * h);
+    let steps = col.newton_steps();
     Ok((
         LongChannel {
             vt_v: vt,

@@ -11,7 +11,11 @@ use gatehold::device::{load_device, template, Architecture};
 use gatehold::run::{run_device, Observer, Silent};
 
 #[derive(Parser)]
-#[command(name = "gatehold", version, about = "How short can the gate be? 2D electrostatic integrity of short-gate transistors (screening level)")]
+#[command(
+    name = "gatehold",
+    version,
+    about = "How short can the gate be? 2D electrostatic integrity of short-gate transistors (screening level)"
+)]
 struct Cli {
     #[command(subcommand)]
     command: Command,
@@ -49,7 +53,10 @@ struct Dots {
 impl Observer for Dots {
     fn bias_point(&self, _vds: f64, _vgs: f64, converged: bool) {
         if self.enabled {
-            let n = self.count.fetch_add(1, std::sync::atomic::Ordering::Relaxed) + 1;
+            let n = self
+                .count
+                .fetch_add(1, std::sync::atomic::Ordering::Relaxed)
+                + 1;
             eprint!("{}", if converged { "." } else { "x" });
             if n % 60 == 0 {
                 eprintln!();
@@ -60,10 +67,19 @@ impl Observer for Dots {
 
 fn run(cli: Cli) -> Result<u8> {
     match cli.command {
-        Command::Run { device, json, curves, quiet } => {
-            let s = load_device(&device).with_context(|| format!("device file {}", device.display()))?;
+        Command::Run {
+            device,
+            json,
+            curves,
+            quiet,
+        } => {
+            let s = load_device(&device)
+                .with_context(|| format!("device file {}", device.display()))?;
             use std::io::IsTerminal;
-            let dots = Dots { enabled: !quiet && !json && std::io::stderr().is_terminal(), count: 0.into() };
+            let dots = Dots {
+                enabled: !quiet && !json && std::io::stderr().is_terminal(),
+                count: 0.into(),
+            };
             let observer: &dyn Observer = if dots.enabled { &dots } else { &Silent };
             let sol = run_device(&s, observer)?;
             if dots.enabled {

@@ -7,9 +7,8 @@ use crate::discretize::Problem;
 use crate::extract::{self, Barrier, Curve, ExtractError};
 use crate::long_channel::long_channel;
 use crate::solve::{
-    Anderson,
-    apply_boundaries, neutral_guess, NewtonOptions, PoissonSolver, QuasiFermi, SolveError,
-    SolveReport,
+    apply_boundaries, neutral_guess, Anderson, NewtonOptions, PoissonSolver, QuasiFermi,
+    SolveError, SolveReport,
 };
 use crate::structure::{along_channel, AlongChannel};
 use crate::theory::closed_form;

@@ -415,7 +415,10 @@ pub struct Anderson {
 
 impl Anderson {
     pub fn new(depth: usize) -> Self {
-        Anderson { depth, ..Default::default() }
+        Anderson {
+            depth,
+            ..Default::default()
+        }
     }
 
     /// Forgets the history (after the iteration map changed).
@@ -440,7 +443,13 @@ impl Anderson {
         }
         let fk = &self.fs[m];
         let df: Vec<Vec<f64>> = (0..m)
-            .map(|j| self.fs[j + 1].iter().zip(&self.fs[j]).map(|(a, b)| a - b).collect())
+            .map(|j| {
+                self.fs[j + 1]
+                    .iter()
+                    .zip(&self.fs[j])
+                    .map(|(a, b)| a - b)
+                    .collect()
+            })
             .collect();
         // Normal equations (df^T df + eps I) gamma = df^T f_k.
         let mut a = vec![vec![0.0; m + 1]; m];
@@ -517,7 +526,11 @@ mod anderson_tests {
         let mut steps = 0;
         for k in 0..200 {
             let mut g = map(&x);
-            let res: f64 = g.iter().zip(&x).map(|(a, b)| (a - b).abs()).fold(0.0, f64::max);
+            let res: f64 = g
+                .iter()
+                .zip(&x)
+                .map(|(a, b)| (a - b).abs())
+                .fold(0.0, f64::max);
             if res < 1e-9 {
                 steps = k;
                 break;

@@ -19,30 +19,108 @@ pub fn device_text(r: &DeviceReport) -> String {
         "{} ({} {}-channel, {} K)\n",
         r.name, r.architecture, r.polarity, r.temperature_k
     ));
-    line(&mut o, "gate length L_g", format!("{:.2}", r.gate_length_nm), "nm");
-    line(&mut o, "metallurgical channel length L_met", format!("{:.2}", r.l_met_nm), "nm");
-    line(&mut o, "EOT", format!("{:.3}", r.eot_nm), "nm");
-    line(&mut o, &format!("V_t at V_DS = {} V", r.vds_lin_v), fmt(r.vt_lin_v, 4), "V");
-    line(&mut o, &format!("V_t at V_DS = {} V", r.vds_sat_v), fmt(r.vt_sat_v, 4), "V");
-    line(&mut o, "V_t long channel (1D, Pao-Sah)", fmt(r.vt_long_v, 4), "V");
-    line(&mut o, "V_t roll-off (lin - long)", fmt(r.vt_rolloff_mv, 1), "mV");
-    line(&mut o, "SS at V_DS,lin", fmt(r.ss_lin_mv_per_dec, 1), "mV/dec");
-    line(&mut o, "SS at V_DS,sat", fmt(r.ss_sat_mv_per_dec, 1), "mV/dec");
-    line(&mut o, "SS long channel", fmt(r.ss_long_mv_per_dec, 1), "mV/dec");
-    line(&mut o, "DIBL", fmt(r.dibl_mv_per_v, 1), "mV/V");
-    line(&mut o, "  of which long-channel floor", fmt(r.dibl_long_floor_mv_per_v, 1), "mV/V (not subtracted)");
-    line(&mut o, "barrier at V_DS,lin", fmt(r.barrier_lin_ev, 4), "eV");
-    line(&mut o, "barrier at V_DS,sat", fmt(r.barrier_sat_ev, 4), "eV");
-    line(&mut o, "barrier lowering", fmt(r.barrier_lowering_mev, 1), "meV");
-    line(&mut o, "leakiest path depth", fmt(r.leakiest_depth_nm, 2), "nm below the top Si surface");
     line(
         &mut o,
-        &format!("natural length ({})", r.natural_length_formula.as_deref().unwrap_or("closed form")),
+        "gate length L_g",
+        format!("{:.2}", r.gate_length_nm),
+        "nm",
+    );
+    line(
+        &mut o,
+        "metallurgical channel length L_met",
+        format!("{:.2}", r.l_met_nm),
+        "nm",
+    );
+    line(&mut o, "EOT", format!("{:.3}", r.eot_nm), "nm");
+    line(
+        &mut o,
+        &format!("V_t at V_DS = {} V", r.vds_lin_v),
+        fmt(r.vt_lin_v, 4),
+        "V",
+    );
+    line(
+        &mut o,
+        &format!("V_t at V_DS = {} V", r.vds_sat_v),
+        fmt(r.vt_sat_v, 4),
+        "V",
+    );
+    line(
+        &mut o,
+        "V_t long channel (1D, Pao-Sah)",
+        fmt(r.vt_long_v, 4),
+        "V",
+    );
+    line(
+        &mut o,
+        "V_t roll-off (lin - long)",
+        fmt(r.vt_rolloff_mv, 1),
+        "mV",
+    );
+    line(
+        &mut o,
+        "SS at V_DS,lin",
+        fmt(r.ss_lin_mv_per_dec, 1),
+        "mV/dec",
+    );
+    line(
+        &mut o,
+        "SS at V_DS,sat",
+        fmt(r.ss_sat_mv_per_dec, 1),
+        "mV/dec",
+    );
+    line(
+        &mut o,
+        "SS long channel",
+        fmt(r.ss_long_mv_per_dec, 1),
+        "mV/dec",
+    );
+    line(&mut o, "DIBL", fmt(r.dibl_mv_per_v, 1), "mV/V");
+    line(
+        &mut o,
+        "  of which long-channel floor",
+        fmt(r.dibl_long_floor_mv_per_v, 1),
+        "mV/V (not subtracted)",
+    );
+    line(
+        &mut o,
+        "barrier at V_DS,lin",
+        fmt(r.barrier_lin_ev, 4),
+        "eV",
+    );
+    line(
+        &mut o,
+        "barrier at V_DS,sat",
+        fmt(r.barrier_sat_ev, 4),
+        "eV",
+    );
+    line(
+        &mut o,
+        "barrier lowering",
+        fmt(r.barrier_lowering_mev, 1),
+        "meV",
+    );
+    line(
+        &mut o,
+        "leakiest path depth",
+        fmt(r.leakiest_depth_nm, 2),
+        "nm below the top Si surface",
+    );
+    line(
+        &mut o,
+        &format!(
+            "natural length ({})",
+            r.natural_length_formula.as_deref().unwrap_or("closed form")
+        ),
         fmt(r.natural_length_nm, 2),
         "nm (closed form, EOT-based)",
     );
     if let Some(l) = r.natural_length_nm {
-        line(&mut o, "L_g / natural length", format!("{:.1}", r.gate_length_nm / l), "");
+        line(
+            &mut o,
+            "L_g / natural length",
+            format!("{:.1}", r.gate_length_nm / l),
+            "",
+        );
     }
     o.push_str(&format!(
         "  mesh {} nodes ({} unknowns); {} bias points; {} Newton steps, {} factorisations; converged: {}\n",
@@ -68,9 +146,16 @@ pub fn curves_csv(r: &DeviceReport) -> String {
         "vgs_V,id_lin_A_per_um_at_{}V,id_sat_A_per_um_at_{}V\n",
         r.vds_lin_v, r.vds_sat_v
     );
-    let cell = |v: Option<f64>| v.map(|x| format!("{x:.6e}")).unwrap_or_else(|| "NaN".into());
+    let cell = |v: Option<f64>| {
+        v.map(|x| format!("{x:.6e}"))
+            .unwrap_or_else(|| "NaN".into())
+    };
     for (k, v) in r.vgs_v.iter().enumerate() {
-        o.push_str(&format!("{v:.6},{},{}\n", cell(r.id_lin[k]), cell(r.id_sat[k])));
+        o.push_str(&format!(
+            "{v:.6},{},{}\n",
+            cell(r.id_lin[k]),
+            cell(r.id_sat[k])
+        ));
     }
     o
 }

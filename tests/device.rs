@@ -33,8 +33,15 @@ fn long_undoped_double_gate_has_ideal_swing() {
     );
     let r = run(&s);
     let ideal = ideal_ss();
-    println!("SS lin {:?} sat {:?} long {:?} ideal {ideal}", r.ss_lin_mv_per_dec, r.ss_sat_mv_per_dec, r.ss_long_mv_per_dec);
-    for ss in [r.ss_lin_mv_per_dec.unwrap(), r.ss_sat_mv_per_dec.unwrap(), r.ss_long_mv_per_dec.unwrap()] {
+    println!(
+        "SS lin {:?} sat {:?} long {:?} ideal {ideal}",
+        r.ss_lin_mv_per_dec, r.ss_sat_mv_per_dec, r.ss_long_mv_per_dec
+    );
+    for ss in [
+        r.ss_lin_mv_per_dec.unwrap(),
+        r.ss_sat_mv_per_dec.unwrap(),
+        r.ss_long_mv_per_dec.unwrap(),
+    ] {
         assert!((ss - ideal).abs() < 0.5, "SS {ss} vs ideal {ideal}");
     }
 }
@@ -99,7 +106,10 @@ max_step_nm = 2.5
         cdep / cox,
     );
     for ss in [ss2d, ss1d] {
-        assert!((ss - with_prefactor).abs() < 1.0, "{ss} vs {with_prefactor}");
+        assert!(
+            (ss - with_prefactor).abs() < 1.0,
+            "{ss} vs {with_prefactor}"
+        );
         assert!((ss - plain).abs() < 2.0, "{ss} vs {plain}");
     }
 }
@@ -178,16 +188,31 @@ max_step_nm = 1.0
         ("vt_lin", n.vt_lin_v.unwrap(), -p.vt_lin_v.unwrap()),
         ("vt_sat", n.vt_sat_v.unwrap(), -p.vt_sat_v.unwrap()),
         ("vt_long", n.vt_long_v.unwrap(), -p.vt_long_v.unwrap()),
-        ("ss_lin", n.ss_lin_mv_per_dec.unwrap(), p.ss_lin_mv_per_dec.unwrap()),
-        ("ss_sat", n.ss_sat_mv_per_dec.unwrap(), p.ss_sat_mv_per_dec.unwrap()),
+        (
+            "ss_lin",
+            n.ss_lin_mv_per_dec.unwrap(),
+            p.ss_lin_mv_per_dec.unwrap(),
+        ),
+        (
+            "ss_sat",
+            n.ss_sat_mv_per_dec.unwrap(),
+            p.ss_sat_mv_per_dec.unwrap(),
+        ),
         ("dibl", n.dibl_mv_per_v.unwrap(), p.dibl_mv_per_v.unwrap()),
-        ("barrier_lowering", n.barrier_lowering_mev.unwrap(), p.barrier_lowering_mev.unwrap()),
+        (
+            "barrier_lowering",
+            n.barrier_lowering_mev.unwrap(),
+            p.barrier_lowering_mev.unwrap(),
+        ),
     ];
     for (name, a, b) in pairs {
         println!("{name}: n {a:.12} p(mirrored) {b:.12}");
         assert!((a - b).abs() < 1e-9, "{name}: {a} vs {b}");
     }
-    assert!(p.id_lin.iter().all(|i| i.unwrap() < 0.0), "p-channel drain current is negative");
+    assert!(
+        p.id_lin.iter().all(|i| i.unwrap() < 0.0),
+        "p-channel drain current is negative"
+    );
 }
 
 #[test]
@@ -224,7 +249,11 @@ fn shorter_gates_lose_control_monotonically() {
     }
     let ideal = ideal_ss();
     for r in &rs {
-        for ss in [r.ss_lin_mv_per_dec.unwrap(), r.ss_sat_mv_per_dec.unwrap(), r.ss_long_mv_per_dec.unwrap()] {
+        for ss in [
+            r.ss_lin_mv_per_dec.unwrap(),
+            r.ss_sat_mv_per_dec.unwrap(),
+            r.ss_long_mv_per_dec.unwrap(),
+        ] {
             assert!(ss > ideal - 1e-6, "SS {ss} below the ideal {ideal}");
         }
     }
@@ -236,7 +265,13 @@ fn bad_ranges_are_reported_not_extrapolated() {
     let s = double_gate(20.0, 8.0, 1.0, "[bias]\nvgs_start_V = -0.3\nvgs_stop_V = 0.05\nvgs_step_V = 0.05\n[mesh]\nmax_step_nm = 1.0\n");
     let r = run_device(&s, &Silent).unwrap().report;
     assert!(r.vt_lin_v.is_none() && r.dibl_mv_per_v.is_none());
-    assert!(r.problems.iter().any(|p| p.contains("extend the sweep beyond")), "{:?}", r.problems);
+    assert!(
+        r.problems
+            .iter()
+            .any(|p| p.contains("extend the sweep beyond")),
+        "{:?}",
+        r.problems
+    );
     let json = serde_json::to_value(&r).unwrap();
     assert!(json["vt_lin_V"].is_null());
 }

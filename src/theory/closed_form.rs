@@ -56,3 +56,88 @@ pub fn natural_length(s: &Scenario) -> Option<(&'static str, f64)> {
         Architecture::CappedFin => Some(("colinge-2004-n2", multi_gate_colinge(t, eot, 2.0))),
     }
 }
+
+/// Root of an increasing function `f` on the open bracket (a, b) by
+/// bisection to machine precision; `None` when f does not change sign.
+/// Used for the exact one-dimensional conditions below, whose left sides are
+/// monotone on the bracket of their lowest root.
+pub fn bisect_increasing(f: impl Fn(f64) -> f64, a: f64, b: f64) -> Option<f64> {
+    let (mut lo, mut hi) = (a, b);
+    // Step in from the bracket ends (poles of tan) until the signs are right.
+    let shrink = 1e-13 * (b - a);
+    if !(f(lo + shrink) < 0.0 && f(hi - shrink) > 0.0) {
+        return None;
+    }
+    lo += shrink;
+    hi -= shrink;
+    for _ in 0..300 {
+        let mid = 0.5 * (lo + hi);
+        if mid <= lo || mid >= hi {
+            break;
+        }
+        if f(mid) < 0.0 {
+            lo = mid;
+        } else {
+            hi = mid;
+        }
+    }
+    Some(0.5 * (lo + hi))
+}
+
+/// Exact 1D natural length of a symmetric double gate (Frank, Taur and Wong,
+/// IEEE Electron Device Letters 19(10), 385, 1998): lowest root k of
+/// `eps_Si tan(k t_Si/2) tan(k t_ox) = eps_ox`, lambda = 1/k (nm).
+/// `eps_si` is the body's relative permittivity (11.7 for silicon).
+pub fn ftw_double_gate(t_si: f64, t_ox: f64, eps_si: f64, eps_ox: f64) -> Option<f64> {
+    let kmax = (std::f64::consts::PI / t_si).min(std::f64::consts::FRAC_PI_2 / t_ox);
+    let f = |k: f64| eps_si * (0.5 * k * t_si).tan() * (k * t_ox).tan() - eps_ox;
+    bisect_increasing(f, 0.0, kmax).map(|k| 1.0 / k)
+}
+
+/// Exact 1D natural length of a single gate over a body of thickness `t_si`
+/// with a floating (zero-field) bottom (Frank, Taur and Wong 1998):
+/// lowest root of `eps_Si tan(k t_Si) tan(k t_ox) = eps_ox`, nm.
+pub fn ftw_single_gate_floating(t_si: f64, t_ox: f64, eps_si: f64, eps_ox: f64) -> Option<f64> {
+    let kmax = (std::f64::consts::FRAC_PI_2 / t_si).min(std::f64::consts::FRAC_PI_2 / t_ox);
+    let f = |k: f64| eps_si * (k * t_si).tan() * (k * t_ox).tan() - eps_ox;
+    bisect_increasing(f, 0.0, kmax).map(|k| 1.0 / k)
+}
+
+/// Exact 1D natural length of a single gate over a body of thickness `t_si`
+/// on a grounded plane (Frank, Taur and Wong 1998; bulk: t_Si = depletion
+/// depth): the root of `eps_Si tan(k t_ox) + eps_ox tan(k t_Si) = 0` with
+/// pi/2 < k t_Si < pi, nm. `None` when t_ox >= t_Si (no root in that range
+/// below the oxide's first pole).
+pub fn ftw_single_gate_grounded(t_si: f64, t_ox: f64, eps_si: f64, eps_ox: f64) -> Option<f64> {
+    if t_ox >= t_si {
+        return None;
+    }
+    let lo = std::f64::consts::FRAC_PI_2 / t_si;
+    let hi = (std::f64::consts::PI / t_si).min(std::f64::consts::FRAC_PI_2 / t_ox);
+    let f = |k: f64| eps_si * (k * t_ox).tan() + eps_ox * (k * t_si).tan();
+    bisect_increasing(f, lo, hi).map(|k| 1.0 / k)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn exact_conditions_reduce_to_the_thin_layer_closed_forms() {
+        // With tan x ~ x the double-gate condition gives k^2 t_Si t_ox / 2 = eps_ox/eps_Si,
+        // i.e. Suzuki 1993; the floating single gate gives Yan 1992. Check the roots
+        // approach them when eps_ox/eps_Si -> 0 (the only way both k t_Si and k t_ox shrink).
+        let eps_ox = 3.9e-4;
+        let dg = ftw_double_gate(8.0, 1.0, EPS_SI, eps_ox).unwrap();
+        let suz = (EPS_SI / (2.0 * eps_ox) * 8.0 * 1.0).sqrt();
+        assert!((dg / suz - 1.0).abs() < 1e-4, "{dg} {suz}");
+        let sg = ftw_single_gate_floating(8.0, 1.0, EPS_SI, eps_ox).unwrap();
+        let yan = (EPS_SI / eps_ox * 8.0 * 1.0).sqrt();
+        assert!((sg / yan - 1.0).abs() < 1e-4, "{sg} {yan}");
+        // Grounded plane, thin oxide: Lambda = pi lambda close to t_Si + (eps_Si/eps_ox) t_ox
+        // (MODEL.md section 6, Frank, Taur and Wong 1998).
+        let g = ftw_single_gate_grounded(30.0, 0.1, EPS_SI, EPS_SIO2).unwrap();
+        let approx = (30.0 + EPS_SI / EPS_SIO2 * 0.1) / std::f64::consts::PI;
+        assert!((g / approx - 1.0).abs() < 2e-3, "{g} {approx}");
+    }
+}

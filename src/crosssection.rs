@@ -1,0 +1,408 @@
+//! The cross-section PERPENDICULAR to the channel of fin and wire devices
+//! (DEVICE-FORMAT.md: tri-gate, gate-all-around; plus the capped fin), built
+//! as a [`Problem`], and its long-channel nonlinear Poisson solve.
+//!
+//! Coordinates: x across the fin, centred on it (fin from -W/2 to W/2); y
+//! downward from the top silicon surface (fin from 0 to H), nm. Electrode 0
+//! ([`GATE`]) is the gate, electrode 1 ([`BACK_PLANE`]) the plane under the
+//! buried oxide. There are no ohmic contacts: the body floats and its carriers
+//! follow the uniform quasi-Fermi levels of a long channel.
+//!
+//! Geometry per architecture:
+//! - tri-gate: fin on a buried oxide (`box_thickness_nm`, `box_material`);
+//!   the gate stack on the top and both sides, wrapping the top corners with
+//!   square (L-infinity) corners; the gate metal around that, filling the
+//!   space above the buried oxide beside the fin; a 1 nm metal slab under the
+//!   buried oxide stands for the back plane. Lateral faces at +-fin_pitch/2
+//!   are symmetry planes (zero normal field).
+//! - gate-all-around: the stack on all four sides and metal everywhere else.
+//!   The metal is Dirichlet, so the domain stops 1 nm into it; fin_pitch and
+//!   the buried oxide do not enter.
+//! - capped fin: a dielectric cap (`cap_thickness_nm`, `cap_material`) as
+//!   wide as the fin on its top; the gate stack wraps the fin-plus-cap core
+//!   (its two sides and the cap's top) and the gate metal lies over that;
+//!   buried oxide and back plane as for the tri-gate.
+//!
+//! Device width (needed for a threshold current I_cc W/L): W is per fin (or
+//! wire) and equals the gated silicon perimeter: tri-gate 2 H + W_fin,
+//! gate-all-around 2 (H + W_fin), capped fin 2 H (see [`WIDTH_DEFINITION`]).
+//!
+//! Back plane potential: the back work function and bias of the `[gate]`
+//! table (defaults 5.17 eV, 0 V). Note: device parsing currently warns that
+//! these keys have no effect outside thin-body; they only act through the
+//! buried oxide here.
+
+use crate::device::{Architecture, Scenario};
+use crate::discretize::{CellKind, Problem};
+use crate::long_channel::{LongChannelError, PaoSahDevice};
+use crate::mesh::graded_line;
+use crate::physics::{Silicon, PER_CM3_TO_PER_NM3};
+use crate::solve::{
+    apply_boundaries, neutral_guess, NewtonOptions, PoissonSolver, QuasiFermi, SolveError,
+};
+pub use crate::structure::{BACK_PLANE, GATE};
+use crate::structure::{FINE_INTERFACE_NM, FINE_OTHER_NM};
+
+/// Thickness of the metal slab that closes the domain (gate top, back plane), nm.
+pub const METAL_SLAB_NM: f64 = 1.0;
+
+/// How gatehold defines the width W of a fin or wire device (stated in every output).
+pub const WIDTH_DEFINITION: &str =
+    "per fin: W = gated silicon perimeter (tri-gate 2 H_fin + W_fin, \
+     gate-all-around 2 (H + W), capped fin 2 H_fin)";
+
+/// What a cell of the cross-section is made of, by role.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, PartialOrd, Ord, serde::Serialize)]
+pub enum Region {
+    Silicon,
+    GateStack,
+    BuriedOxide,
+    Cap,
+    Metal,
+}
+
+impl Region {
+    /// Words for reports.
+    pub fn describe(&self) -> &'static str {
+        match self {
+            Region::Silicon => "silicon body",
+            Region::GateStack => "gate stack",
+            Region::BuriedOxide => "buried oxide",
+            Region::Cap => "fin cap",
+            Region::Metal => "metal",
+        }
+    }
+}
+
+/// Failure to build or solve a cross-section.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+pub enum CrossSectionError {
+    #[error("architecture {0} has no fin or wire cross-section (planar devices use the along-channel section)")]
+    NotAFin(Architecture),
+    #[error(transparent)]
+    Solve(#[from] SolveError),
+}
+
+/// A fin or wire cross-section ready for eigen and Poisson solves.
+#[derive(Debug, Clone)]
+pub struct CrossSection {
+    pub architecture: Architecture,
+    pub problem: Problem,
+    /// Role of each cell, index `cx + cy * (nx - 1)` as [`Problem::cells`].
+    pub regions: Vec<Region>,
+    /// Fin (wire) width and height, nm.
+    pub fin_width_nm: f64,
+    pub fin_height_nm: f64,
+    /// Device width W per fin, nm ([`WIDTH_DEFINITION`]).
+    pub width_nm: f64,
+    /// Node at the top-right silicon corner (x = W/2, y = 0).
+    pub corner_node: usize,
+    /// Node at the centre of the top silicon face (x = 0, y = 0).
+    pub top_centre_node: usize,
+    /// Node at the middle of the right side face (x = W/2, y = H/2).
+    pub side_centre_node: usize,
+}
+
+fn lookup(fine: &[(f64, f64)], x: f64) -> Option<f64> {
+    fine.iter()
+        .filter(|(p, _)| (p - x).abs() < 1e-9)
+        .map(|(_, h)| *h)
+        .reduce(f64::min)
+}
+
+/// Builds the cross-section of a tri-gate, gate-all-around or capped-fin scenario.
+pub fn cross_section(s: &Scenario) -> Result<CrossSection, CrossSectionError> {
+    let arch = s.architecture;
+    if !arch.is_fin() {
+        return Err(CrossSectionError::NotAFin(arch));
+    }
+    let g = &s.geometry;
+    let w = g.body_thickness_nm;
+    let h = g.fin_height_nm;
+    let half = 0.5 * w;
+    let t = s.stack_thickness_nm();
+    let gaa = arch == Architecture::GateAllAround;
+    let capped = arch == Architecture::CappedFin;
+    let tc = if capped { g.cap_thickness_nm } else { 0.0 };
+    let core_top = -tc;
+    let tbox = g.box_thickness_nm;
+    let r = s.mesh.refinement;
+    let max_step = s.mesh.max_step_nm;
+    let cum: Vec<f64> = s
+        .stack
+        .iter()
+        .scan(0.0, |acc, l| {
+            *acc += l.thickness_nm;
+            Some(*acc)
+        })
+        .collect();
+
+    // x lines.
+    let x_edge = if gaa {
+        half + t + METAL_SLAB_NM
+    } else {
+        0.5 * g.fin_pitch_nm
+    };
+    let mut xh = vec![-x_edge, x_edge, -half, 0.0, half];
+    let mut xf = vec![(-half, FINE_INTERFACE_NM), (half, FINE_INTERFACE_NM)];
+    for &c in &cum {
+        if half + c < x_edge - 1e-9 {
+            xh.push(-(half + c));
+            xh.push(half + c);
+        }
+    }
+    if half + t < x_edge - 1e-9 {
+        xf.push((-(half + t), FINE_OTHER_NM));
+        xf.push((half + t, FINE_OTHER_NM));
+    }
+    let x = graded_line(&xh, |p| lookup(&xf, p), max_step, r, 2);
+
+    // y lines.
+    let mut yh = vec![core_top - t - METAL_SLAB_NM, core_top, 0.0, 0.5 * h, h];
+    let mut yf = vec![
+        (0.0, FINE_INTERFACE_NM),
+        (h, FINE_INTERFACE_NM),
+        (core_top - t, FINE_OTHER_NM),
+    ];
+    for &c in &cum {
+        yh.push(core_top - c);
+    }
+    if gaa {
+        for &c in &cum {
+            yh.push(h + c);
+        }
+        yh.push(h + t + METAL_SLAB_NM);
+        yf.push((h + t, FINE_OTHER_NM));
+    } else {
+        yh.push(h + tbox);
+        yh.push(h + tbox + METAL_SLAB_NM);
+    }
+    let y = graded_line(&yh, |p| lookup(&yf, p), max_step, r, 2);
+
+    let stack_region = |d: f64| -> Option<f64> {
+        s.stack
+            .iter()
+            .zip(&cum)
+            .find(|(_, &c)| d < c)
+            .map(|(l, _)| l.eps_r)
+    };
+    let region_at = |xc: f64, yc: f64| -> (Region, CellKind) {
+        if !gaa && yc > h {
+            return if yc < h + tbox {
+                (Region::BuriedOxide, CellKind::Dielectric(g.box_eps))
+            } else {
+                (Region::Metal, CellKind::Metal(BACK_PLANE))
+            };
+        }
+        let dx = xc.abs() - half;
+        let dy_top = core_top - yc;
+        let dy_bottom = if gaa { yc - h } else { f64::NEG_INFINITY };
+        if dx < 0.0 && dy_top < 0.0 && dy_bottom < 0.0 {
+            return if yc < 0.0 {
+                (Region::Cap, CellKind::Dielectric(g.cap_eps))
+            } else {
+                (Region::Silicon, CellKind::Semi)
+            };
+        }
+        let d = dx.max(dy_top).max(dy_bottom);
+        match stack_region(d) {
+            Some(eps) => (Region::GateStack, CellKind::Dielectric(eps)),
+            None => (Region::Metal, CellKind::Metal(GATE)),
+        }
+    };
+    let silicon = Silicon::at(s.temperature_k);
+    let net = -s.polarity.sign() * s.doping.channel_cm3 * PER_CM3_TO_PER_NM3;
+    let problem = Problem::new(
+        x,
+        y,
+        silicon,
+        |xc, yc| region_at(xc, yc).1,
+        |_, _| None,
+        |_, _, _, _| net,
+    );
+    let mut regions = Vec::with_capacity(problem.cells.len());
+    for cy in 0..problem.ny - 1 {
+        for cx in 0..problem.nx - 1 {
+            let xc = 0.5 * (problem.x.nodes[cx] + problem.x.nodes[cx + 1]);
+            let yc = 0.5 * (problem.y.nodes[cy] + problem.y.nodes[cy + 1]);
+            regions.push(region_at(xc, yc).0);
+        }
+    }
+    let node = |xv: f64, yv: f64| -> usize {
+        let i = problem.x.index_of(xv).expect("hard point is a mesh line");
+        let j = problem.y.index_of(yv).expect("hard point is a mesh line");
+        i + j * problem.nx
+    };
+    let width_nm = match arch {
+        Architecture::GateAllAround => 2.0 * (h + w),
+        Architecture::CappedFin => 2.0 * h,
+        _ => 2.0 * h + w,
+    };
+    Ok(CrossSection {
+        architecture: arch,
+        corner_node: node(half, 0.0),
+        top_centre_node: node(0.0, 0.0),
+        side_centre_node: node(half, 0.5 * h),
+        problem,
+        regions,
+        fin_width_nm: w,
+        fin_height_nm: h,
+        width_nm,
+    })
+}
+
+/// A long fin or wire seen through its cross-section: nonlinear Poisson with
+/// uniform quasi-Fermi levels (the channel carrier's at V, the other at 0).
+pub struct FinChannel {
+    pub section: CrossSection,
+    solver: PoissonSolver,
+    psi: Vec<f64>,
+    sign: f64,
+    wf_ev: f64,
+    back_wf_ev: f64,
+    back_bias_v: f64,
+    mobility_cm2_per_vs: f64,
+    opts: NewtonOptions,
+    /// Newton steps so far.
+    pub steps: usize,
+}
+
+impl FinChannel {
+    pub fn new(s: &Scenario) -> Result<Self, CrossSectionError> {
+        let section = cross_section(s)?;
+        let solver = PoissonSolver::new(&section.problem)?;
+        let p = &section.problem;
+        let psi = neutral_guess(p, &QuasiFermi::uniform(p.nx, 0.0, 0.0));
+        Ok(FinChannel {
+            opts: NewtonOptions::for_vt(p.silicon.vt),
+            solver,
+            psi,
+            sign: s.polarity.sign(),
+            wf_ev: s.gate.workfunction_ev,
+            back_wf_ev: s.gate.back_workfunction_ev,
+            back_bias_v: s.gate.back_bias_v,
+            mobility_cm2_per_vs: s.extraction.mobility_cm2_per_vs,
+            steps: 0,
+            section,
+        })
+    }
+
+    /// Solves at gate voltage `vgs` with the channel carrier's quasi-Fermi
+    /// level at `v`; returns the channel-carrier density integrated over the
+    /// cross-section, nm^-1 (carriers per nm of channel), and leaves the
+    /// potential in [`FinChannel::potential`]. A non-converged solve is an error.
+    pub fn line_density(&mut self, vgs: f64, v: f64) -> Result<f64, LongChannelError> {
+        let p = &self.section.problem;
+        let si = p.silicon;
+        let electrodes = [
+            si.electrode_potential(vgs, self.wf_ev),
+            si.electrode_potential(self.back_bias_v, self.back_wf_ev),
+        ];
+        apply_boundaries(p, &mut self.psi, &electrodes, &[]);
+        let qf = if self.sign > 0.0 {
+            QuasiFermi::uniform(p.nx, v, 0.0)
+        } else {
+            QuasiFermi::uniform(p.nx, 0.0, v)
+        };
+        let rep = self.solver.solve(p, &mut self.psi, &qf, &self.opts)?;
+        self.steps += rep.steps;
+        if !rep.converged {
+            return Err(LongChannelError::NotConverged {
+                vgs_v: vgs,
+                v,
+                reason: format!("fin cross-section: {}", rep.reason),
+            });
+        }
+        let s = self.sign;
+        let vt = si.vt;
+        let mut sum = 0.0;
+        for (k, &a) in p.semi_area.iter().enumerate() {
+            if a > 0.0 {
+                sum += a * si.ni * (s * (self.psi[k] - v) / vt).exp();
+            }
+        }
+        Ok(sum)
+    }
+
+    /// Potential of the last solve, V (nodes of the cross-section problem).
+    pub fn potential(&self) -> &[f64] {
+        &self.psi
+    }
+
+    /// Channel-carrier density (nm^-3) at node `k` for the last solve at quasi-Fermi level `v`.
+    pub fn carrier_density(&self, k: usize, v: f64) -> f64 {
+        let si = self.section.problem.silicon;
+        si.ni * (self.sign * (self.psi[k] - v) / si.vt).exp()
+    }
+}
+
+impl PaoSahDevice for FinChannel {
+    /// Line density divided by the device width W ([`WIDTH_DEFINITION`]), nm^-2.
+    fn sheet_density(&mut self, vgs: f64, v: f64) -> Result<f64, LongChannelError> {
+        Ok(self.line_density(vgs, v)? / self.section.width_nm)
+    }
+
+    fn mobility_cm2_per_vs(&self) -> f64 {
+        self.mobility_cm2_per_vs
+    }
+
+    fn newton_steps(&self) -> usize {
+        self.steps
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::device::parse_device;
+
+    fn fin(arch: &str) -> Scenario {
+        parse_device(&format!(
+            "name = \"f\"\narchitecture = \"{arch}\"\n[geometry]\ngate_length_nm = 20\nbody_thickness_nm = 8\n\
+             fin_height_nm = 30\n[[gate_stack]]\nmaterial = \"SiO2\"\nthickness_nm = 1.0\n[gate]\nworkfunction_eV = 4.6\n"
+        ))
+        .unwrap()
+    }
+
+    #[test]
+    fn tri_gate_section_has_the_stated_geometry() {
+        let cs = cross_section(&fin("tri-gate")).unwrap();
+        let p = &cs.problem;
+        // Silicon area = fin area; gate stack area = top + two sides + two corners.
+        let area = |r: Region| -> f64 {
+            let mut a = 0.0;
+            for cy in 0..p.ny - 1 {
+                for cx in 0..p.nx - 1 {
+                    if cs.regions[cx + cy * (p.nx - 1)] == r {
+                        a += (p.x.nodes[cx + 1] - p.x.nodes[cx])
+                            * (p.y.nodes[cy + 1] - p.y.nodes[cy]);
+                    }
+                }
+            }
+            a
+        };
+        assert!((area(Region::Silicon) - 8.0 * 30.0).abs() < 1e-9);
+        assert!((area(Region::GateStack) - (8.0 + 2.0 * 30.0 + 2.0)).abs() < 1e-9);
+        // Default pitch: 8 + 2 + 20 = 30 nm; buried oxide 25 nm under all of it.
+        assert!((area(Region::BuriedOxide) - 30.0 * 25.0).abs() < 1e-9);
+        assert_eq!(cs.width_nm, 68.0);
+        let semi: f64 = p.semi_area.iter().sum();
+        assert!((semi - 240.0).abs() < 1e-9);
+    }
+
+    #[test]
+    fn gate_all_around_is_closed_by_metal() {
+        let cs = cross_section(&fin("gate-all-around")).unwrap();
+        assert!(!cs.regions.contains(&Region::BuriedOxide));
+        let p = &cs.problem;
+        // Every boundary node is on the gate.
+        for j in 0..p.ny {
+            for i in [0, p.nx - 1] {
+                assert_eq!(
+                    p.nodes[i + j * p.nx],
+                    crate::discretize::NodeKind::Electrode(GATE)
+                );
+            }
+        }
+    }
+}
