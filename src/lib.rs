@@ -33,6 +33,7 @@ pub mod long_channel;
 pub mod mesh;
 pub mod physics;
 pub mod run;
+pub mod scan;
 pub mod solve;
 pub mod structure;
 pub mod summary;

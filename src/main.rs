@@ -37,6 +37,28 @@ enum Command {
         #[arg(long)]
         quiet: bool,
     },
+    /// Natural length of the device's stack or cross-section, numeric beside the closed forms.
+    Lambda {
+        /// Device file (TOML).
+        device: PathBuf,
+        /// Print one JSON object instead of the text.
+        #[arg(long)]
+        json: bool,
+    },
+    /// Solve (planar) or predict (fins, wires) several gate lengths, beside the theory.
+    Scan {
+        /// Device file (TOML).
+        device: PathBuf,
+        /// Gate lengths in nm, comma separated.
+        #[arg(long, value_delimiter = ',', required = true, value_name = "NM,NM,...")]
+        lengths: Vec<f64>,
+        /// Print one JSON object instead of the table.
+        #[arg(long)]
+        json: bool,
+        /// Worker threads (default: all cores).
+        #[arg(long)]
+        jobs: Option<usize>,
+    },
     /// Print a commented device file to start from.
     Template {
         /// bulk | thin-body | double-gate | tri-gate | gate-all-around | capped-fin
@@ -96,6 +118,48 @@ fn run(cli: Cli) -> Result<u8> {
                     .with_context(|| format!("writing {}", path.display()))?;
             }
             Ok(if r.problems.is_empty() { 0 } else { 2 })
+        }
+        Command::Lambda { device, json } => {
+            let s = load_device(&device)
+                .with_context(|| format!("device file {}", device.display()))?;
+            let r = gatehold::theory::lambda_report(&s)?;
+            if json {
+                println!("{}", serde_json::to_string_pretty(&r)?);
+            } else {
+                print!("{}", gatehold::theory::render_text(&r));
+            }
+            Ok(0)
+        }
+        Command::Scan {
+            device,
+            lengths,
+            json,
+            jobs,
+        } => {
+            let s = load_device(&device)
+                .with_context(|| format!("device file {}", device.display()))?;
+            let pool = rayon::ThreadPoolBuilder::new()
+                .num_threads(jobs.unwrap_or(0))
+                .build()?;
+            use std::io::IsTerminal;
+            let dots = Dots {
+                enabled: !json && std::io::stderr().is_terminal(),
+                count: 0.into(),
+            };
+            let r = pool.install(|| gatehold::scan::scan(&s, &lengths, &dots))?;
+            if dots.enabled {
+                eprintln!();
+            }
+            if json {
+                println!("{}", serde_json::to_string_pretty(&r)?);
+            } else {
+                print!("{}", gatehold::scan::render_text(&r));
+            }
+            Ok(if r.rows.iter().all(|row| row.status == "ok") {
+                0
+            } else {
+                2
+            })
         }
         Command::Template { architecture } => {
             let arch = Architecture::from_name(&architecture).with_context(|| {

@@ -553,7 +553,10 @@ pub fn scenario_from_table(root: &toml::Table) -> Result<Scenario, DeviceError> 
         6.5,
         "eV",
     )?;
-    if arch != Architecture::ThinBody {
+    if !matches!(
+        arch,
+        Architecture::ThinBody | Architecture::TriGate | Architecture::CappedFin
+    ) {
         for k in ["gate.back_workfunction_eV", "gate.back_bias_V"] {
             if r.given(k) {
                 warnings.push(format!("{k} has no effect for architecture {arch}"));
@@ -564,7 +567,12 @@ pub fn scenario_from_table(root: &toml::Table) -> Result<Scenario, DeviceError> 
         workfunction_ev,
         back_workfunction_ev: in_range(
             "gate.back_workfunction_eV",
-            r.number("gate.back_workfunction_eV")?.unwrap_or(5.17),
+            r.number("gate.back_workfunction_eV")?
+                .unwrap_or(if s > 0.0 {
+                    5.17
+                } else {
+                    2.0 * crate::physics::Silicon::at(temperature_k).phi_i_ev - 5.17
+                }),
             3.0,
             6.5,
             "eV",

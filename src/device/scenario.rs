@@ -210,3 +210,37 @@ impl Scenario {
         crate::physics::EPS0_F_PER_M * 1e-2 * crate::physics::EPS_SIO2 / (self.eot_nm() * 1e-7)
     }
 }
+
+impl Scenario {
+    /// The same device at another gate length, with the length-dependent
+    /// rules of the device file re-checked.
+    pub fn with_gate_length(&self, gate_length_nm: f64) -> Result<Scenario, super::DeviceError> {
+        let key = "geometry.gate_length_nm";
+        let bad = |reason: String| super::DeviceError::Invalid {
+            key: key.into(),
+            value: gate_length_nm.to_string(),
+            reason,
+        };
+        if !(gate_length_nm.is_finite() && gate_length_nm > 0.0) {
+            return Err(bad("must be greater than zero".into()));
+        }
+        if gate_length_nm < 2.0 * self.mesh.max_step_nm / self.mesh.refinement {
+            return Err(bad(format!(
+                "shorter than 2 mesh cells of mesh.max_step_nm = {}",
+                self.mesh.max_step_nm
+            )));
+        }
+        if gate_length_nm > 100_000.0 {
+            return Err(bad("longer than 100 um".into()));
+        }
+        if self.doping.junction_offset_nm >= 0.5 * gate_length_nm {
+            return Err(bad(format!(
+                "doping.junction_offset_nm = {} overlaps of both junctions would meet",
+                self.doping.junction_offset_nm
+            )));
+        }
+        let mut s = self.clone();
+        s.geometry.gate_length_nm = gate_length_nm;
+        Ok(s)
+    }
+}
