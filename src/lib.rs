@@ -36,3 +36,6 @@ pub mod solve;
 pub mod structure;
 pub mod theory;
 pub mod transport;
+pub mod sweep;
+pub mod io;
+pub mod plot;
