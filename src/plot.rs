@@ -586,16 +586,15 @@ pub fn sweep_plots(f: &SweepFile, dir: &Path, theory: &Theory) -> Result<Vec<Pat
             .collect::<Vec<_>>()
             .join(", ")
     };
-    let series_of = |name: &str, abs: bool| -> Vec<Series> {
+    let series_of = |name: &str| -> Vec<Series> {
         let vals = f.figure(name).unwrap_or_default();
         let mut out: Vec<Series> = Vec::new();
-        for k in 0..f.rows.len() {
-            let (x, y) = (lg[k], vals.get(k).copied().unwrap_or(f64::NAN));
+        for (k, &x) in lg.iter().enumerate() {
+            let y = vals.get(k).copied().unwrap_or(f64::NAN);
             if !(x.is_finite() && y.is_finite()) {
                 continue;
             }
             let l = label(k);
-            let y = if abs { y.abs() } else { y };
             match out.iter_mut().find(|s| s.label == l) {
                 Some(s) => s.points.push((x, y)),
                 None => out.push(Series {
@@ -633,7 +632,7 @@ pub fn sweep_plots(f: &SweepFile, dir: &Path, theory: &Theory) -> Result<Vec<Pat
             &theory.ss_mv_per_dec,
         ),
     ] {
-        let solved = series_of(name, false);
+        let solved = series_of(name);
         if solved.is_empty() && th.is_empty() {
             continue;
         }

@@ -136,7 +136,7 @@ impl Criteria {
         if let Some(m) = self.vt_rolloff_max_mv {
             checks.push(rolloff.map(|r| r.abs() <= m));
         }
-        if checks.iter().any(|c| *c == Some(false)) {
+        if checks.contains(&Some(false)) {
             0
         } else if checks.iter().all(|c| c.is_some()) {
             1
