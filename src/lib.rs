@@ -39,3 +39,6 @@ pub mod structure;
 pub mod summary;
 pub mod theory;
 pub mod transport;
+pub mod sweep;
+pub mod io;
+pub mod plot;

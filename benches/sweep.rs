@@ -1,0 +1,126 @@
+//! Sweep costs: the per-point checkpoint (whole-file rewrite) against the
+//! number of finished points, and a small real sweep at 1 and 2 threads.
+//! Run: cargo bench --bench sweep
+
+use criterion::{criterion_group, criterion_main, Criterion};
+use gatehold::io::hdf5::{to_bytes, write_sweep};
+use gatehold::io::{AxisColumn, AxisValue, CurveData, PointRow, SweepFile, SweepMeta};
+use gatehold::sweep::{parse_plan, run_sweep, Quiet, SweepOptions, FALLBACK_FIGURES};
+
+fn synthetic(points: usize) -> SweepFile {
+    let v: Vec<f64> = (0..51).map(|k| -0.2 + 0.02 * k as f64).collect();
+    let rows = (0..points)
+        .map(|i| PointRow {
+            index: i,
+            axis: vec![
+                AxisValue::Number(10.0 + i as f64),
+                AxisValue::Text("double-gate".into()),
+            ],
+            figures: FALLBACK_FIGURES
+                .iter()
+                .enumerate()
+                .map(|(k, _)| Some(k as f64 * 0.1 + i as f64))
+                .collect(),
+            status: "ok".into(),
+            meets_criteria: 1,
+            newton_steps: 400,
+            vds_v: (0.05, 0.8),
+            elapsed_s: 1.0,
+            curve: CurveData {
+                vgs_v: v.clone(),
+                id_lin: v.iter().map(|x| 1e-9 * (x * 20.0).exp()).collect(),
+                id_sat: v.iter().map(|x| 2e-9 * (x * 20.0).exp()).collect(),
+            },
+            map: None,
+        })
+        .collect();
+    SweepFile {
+        meta: SweepMeta {
+            tool_version: "bench".into(),
+            plan: "base = \"x.toml\"".into(),
+            created: String::new(),
+            command_line: String::new(),
+            model_summary: String::new(),
+            started: String::new(),
+            finished: String::new(),
+            shard_index: 0,
+            shard_count: 1,
+            points_total: points,
+        },
+        axes: vec![
+            AxisColumn {
+                key: "geometry.gate_length_nm".into(),
+                numeric: true,
+            },
+            AxisColumn {
+                key: "architecture".into(),
+                numeric: false,
+            },
+        ],
+        figures: FALLBACK_FIGURES.iter().map(|s| s.to_string()).collect(),
+        rows,
+    }
+}
+
+const PLAN: &str = r#"
+[axes]
+"geometry.gate_length_nm" = [12, 18]
+[base]
+name = "bench-dg"
+architecture = "double-gate"
+[base.geometry]
+gate_length_nm = 15
+body_thickness_nm = 5
+source_drain_length_nm = 8
+gate_height_nm = 5
+[[base.gate_stack]]
+material = "SiO2"
+thickness_nm = 1.0
+[base.gate]
+workfunction_eV = 4.6
+[base.bias]
+vgs_start_V = -0.3
+vgs_stop_V = 0.6
+vgs_step_V = 0.04
+[base.mesh]
+max_step_nm = 1.0
+"#;
+
+fn bench(c: &mut Criterion) {
+    let dir = tempfile::tempdir().unwrap();
+    for n in [100, 1000, 10_000] {
+        let f = synthetic(n);
+        c.bench_function(&format!("checkpoint_bytes_{n}_points"), |b| {
+            b.iter(|| to_bytes(&f).unwrap())
+        });
+        let path = dir.path().join(format!("c{n}.h5"));
+        c.bench_function(&format!("checkpoint_write_fsync_rename_{n}_points"), |b| {
+            b.iter(|| write_sweep(&path, &f).unwrap())
+        });
+    }
+    let plan = parse_plan(PLAN, dir.path()).unwrap();
+    let mut g = c.benchmark_group("sweep_2_points");
+    g.sample_size(10);
+    for jobs in [1, 2] {
+        let out = dir.path().join(format!("s{jobs}.h5"));
+        g.bench_function(format!("jobs_{jobs}"), |b| {
+            b.iter(|| {
+                run_sweep(
+                    &plan,
+                    &out,
+                    &SweepOptions {
+                        jobs,
+                        overwrite: true,
+                        ..Default::default()
+                    },
+                    &Quiet,
+                )
+                .unwrap()
+            })
+        });
+    }
+    g.finish();
+}
+
+criterion_group!(benches, bench);
+criterion_main!(benches);

@@ -1,0 +1,50 @@
+//! CSV export of a sweep's `points` table (one row per point, plan order).
+
+use std::io::Write;
+
+use super::{units_of, AxisValue, SweepFile};
+
+fn quote(s: &str) -> String {
+    if s.contains([',', '"', '\n', '\r']) {
+        format!("\"{}\"", s.replace('"', "\"\""))
+    } else {
+        s.to_string()
+    }
+}
+
+/// Writes the header (`name [units]`) and one row per point: point_index,
+/// axis columns, figures (empty when missing), status, meets_criteria.
+pub fn write_points<W: Write>(f: &SweepFile, mut w: W) -> std::io::Result<()> {
+    let mut head = vec!["point_index".to_string()];
+    head.extend(f.axes.iter().map(|a| {
+        if a.numeric {
+            format!("{} [{}]", a.key, units_of(&a.key))
+        } else {
+            a.key.clone()
+        }
+    }));
+    head.extend(f.figures.iter().map(|n| format!("{n} [{}]", units_of(n))));
+    head.push("status".into());
+    head.push("meets_criteria".into());
+    writeln!(
+        w,
+        "{}",
+        head.iter().map(|h| quote(h)).collect::<Vec<_>>().join(",")
+    )?;
+    for r in &f.rows {
+        let mut cells = vec![r.index.to_string()];
+        cells.extend(r.axis.iter().map(|v| match v {
+            AxisValue::Number(x) => format!("{x}"),
+            AxisValue::Text(s) => quote(s),
+        }));
+        cells.extend(
+            r.figures
+                .iter()
+                .map(|v| v.map(|x| format!("{x:e}")).unwrap_or_default()),
+        );
+        cells.push(quote(&r.status));
+        cells.push(r.meets_criteria.to_string());
+        writeln!(w, "{}", cells.join(","))?;
+    }
+    Ok(())
+}

@@ -1,0 +1,524 @@
+//! The HDF5 form of a [`SweepFile`] (pure Rust, hdf5-pure; schema in `docs/hdf5-schema.md`).
+//!
+//! Every write builds the whole file in memory, writes it to `FILE.tmp`,
+//! syncs it and renames it over `FILE`, so a reader (or a killed run) only
+//! ever sees a complete file: the previous checkpoint or the new one. Rows are
+//! always written sorted by `point_index`, so a complete file holds one
+//! element per point in plan order, and a partial one holds the finished
+//! points in plan order.
+
+use std::collections::HashMap;
+use std::io::Write;
+use std::path::{Path, PathBuf};
+
+use hdf5_pure::{AttrValue, File, FileBuilder, MaxExtent};
+
+use super::{
+    ascii_fit, units_of, AxisColumn, AxisValue, CurveData, IoError, MapData, PointRow, SweepFile,
+    SweepMeta, STATUS_WIDTH,
+};
+
+/// Value of the root attribute `format`.
+pub const FORMAT: &str = "gatehold-sweep 1";
+
+fn vs(s: &str) -> AttrValue {
+    AttrValue::VarLenString(s.to_string())
+}
+
+fn h5err(path: &Path, object: &str, e: impl std::fmt::Display) -> IoError {
+    IoError::Hdf5 {
+        path: path.display().to_string(),
+        object: object.to_string(),
+        reason: e.to_string(),
+    }
+}
+
+fn chunk(n: usize, max: usize) -> u64 {
+    n.clamp(16, max) as u64
+}
+
+/// Kinds of column data under `points/`.
+enum Col<'a> {
+    F64(Vec<f64>),
+    I64(Vec<i64>),
+    Text(Vec<&'a str>, usize),
+}
+
+/// Builds the file's bytes.
+pub fn to_bytes(f: &SweepFile) -> Result<Vec<u8>, String> {
+    let m = &f.meta;
+    let mut fb = FileBuilder::new();
+    fb.set_attr("format", vs(FORMAT));
+    fb.set_attr("tool_version", vs(&m.tool_version));
+    fb.set_attr("plan", vs(&m.plan));
+    fb.set_attr("created", vs(&m.created));
+    fb.set_attr("command_line", vs(&m.command_line));
+    fb.set_attr("model_summary", vs(&m.model_summary));
+    fb.set_attr("started", vs(&m.started));
+    fb.set_attr("finished", vs(&m.finished));
+    fb.set_attr("shard", vs(&format!("{}/{}", m.shard_index, m.shard_count)));
+    fb.set_attr("points_total", AttrValue::I64(m.points_total as i64));
+    fb.set_attr("points_done", AttrValue::I64(f.rows.len() as i64));
+    fb.set_attr("complete", AttrValue::I64(i64::from(f.is_complete())));
+    let axes_json = serde_json::to_string(&f.axes.iter().map(|a| &a.key).collect::<Vec<_>>())
+        .map_err(|e| e.to_string())?;
+    fb.set_attr("axis_columns", vs(&axes_json));
+    fb.set_attr(
+        "figure_columns",
+        vs(&serde_json::to_string(&f.figures).map_err(|e| e.to_string())?),
+    );
+
+    // points/
+    let n = f.rows.len();
+    let mut cols: Vec<(String, &str, &str, Col)> = Vec::new(); // name, units, role, data
+    cols.push((
+        "point_index".into(),
+        "1",
+        "index",
+        Col::I64(f.rows.iter().map(|r| r.index as i64).collect()),
+    ));
+    let axis_text: Vec<Vec<String>> = f
+        .axes
+        .iter()
+        .enumerate()
+        .map(|(k, _)| {
+            f.rows
+                .iter()
+                .map(|r| match &r.axis[k] {
+                    AxisValue::Text(s) => ascii_fit(s, 1024),
+                    AxisValue::Number(x) => x.to_string(),
+                })
+                .collect()
+        })
+        .collect();
+    for (k, a) in f.axes.iter().enumerate() {
+        if a.numeric {
+            let v = f
+                .rows
+                .iter()
+                .map(|r| {
+                    if let AxisValue::Number(x) = r.axis[k] {
+                        x
+                    } else {
+                        f64::NAN
+                    }
+                })
+                .collect();
+            cols.push((a.key.clone(), units_of(&a.key), "axis", Col::F64(v)));
+        } else {
+            let v: Vec<&str> = axis_text[k].iter().map(String::as_str).collect();
+            let w = v
+                .iter()
+                .map(|s| s.len())
+                .max()
+                .unwrap_or(0)
+                .max(16)
+                .next_power_of_two();
+            cols.push((a.key.clone(), "1", "axis", Col::Text(v, w)));
+        }
+    }
+    for (k, name) in f.figures.iter().enumerate() {
+        cols.push((
+            name.clone(),
+            units_of(name),
+            "figure",
+            Col::F64(
+                f.rows
+                    .iter()
+                    .map(|r| r.figures[k].unwrap_or(f64::NAN))
+                    .collect(),
+            ),
+        ));
+    }
+    let status: Vec<String> = f
+        .rows
+        .iter()
+        .map(|r| ascii_fit(&r.status, STATUS_WIDTH))
+        .collect();
+    cols.push((
+        "status".into(),
+        "1",
+        "status",
+        Col::Text(status.iter().map(String::as_str).collect(), STATUS_WIDTH),
+    ));
+    cols.push((
+        "meets_criteria".into(),
+        "1",
+        "bookkeeping",
+        Col::I64(f.rows.iter().map(|r| r.meets_criteria).collect()),
+    ));
+    cols.push((
+        "newton_steps_total".into(),
+        "1",
+        "bookkeeping",
+        Col::I64(f.rows.iter().map(|r| r.newton_steps).collect()),
+    ));
+    cols.push((
+        "vds_lin_V".into(),
+        "V",
+        "bookkeeping",
+        Col::F64(f.rows.iter().map(|r| r.vds_v.0).collect()),
+    ));
+    cols.push((
+        "vds_sat_V".into(),
+        "V",
+        "bookkeeping",
+        Col::F64(f.rows.iter().map(|r| r.vds_v.1).collect()),
+    ));
+    cols.push((
+        "elapsed_s".into(),
+        "s",
+        "bookkeeping",
+        Col::F64(f.rows.iter().map(|r| r.elapsed_s).collect()),
+    ));
+    let mut offsets = Vec::with_capacity(n);
+    let mut off = 0i64;
+    for r in &f.rows {
+        offsets.push(off);
+        off += r.curve.vgs_v.len() as i64;
+    }
+    cols.push(("curve_offset".into(), "1", "bookkeeping", Col::I64(offsets)));
+    cols.push((
+        "curve_length".into(),
+        "1",
+        "bookkeeping",
+        Col::I64(f.rows.iter().map(|r| r.curve.vgs_v.len() as i64).collect()),
+    ));
+
+    let mut g = fb.create_group("points");
+    g.set_attr(
+        "order",
+        vs("one element per finished point, sorted by point_index (plan order)"),
+    );
+    for (name, units, role, data) in &cols {
+        let ds = g.create_dataset(name);
+        match data {
+            Col::F64(v) => {
+                ds.with_f64_data(v);
+            }
+            Col::I64(v) => {
+                ds.with_i64_data(v);
+            }
+            Col::Text(v, w) => {
+                ds.with_ascii_strings_sized(v, *w as u32)
+                    .map_err(|e| format!("points/{name}: {e}"))?;
+            }
+        }
+        ds.with_shape(&[n as u64])
+            .with_maxshape(&[MaxExtent::Unlimited])
+            .with_chunks(&[chunk(n, 1024)]);
+        ds.set_attr("units", vs(units));
+        ds.set_attr("role", vs(role));
+    }
+    fb.add_group(g.finish());
+
+    // curves/
+    let total = off as usize;
+    let mut pi = Vec::with_capacity(total);
+    let (mut v, mut il, mut is) = (
+        Vec::with_capacity(total),
+        Vec::with_capacity(total),
+        Vec::with_capacity(total),
+    );
+    for r in &f.rows {
+        pi.extend(std::iter::repeat_n(r.index as i64, r.curve.vgs_v.len()));
+        v.extend_from_slice(&r.curve.vgs_v);
+        il.extend_from_slice(&r.curve.id_lin);
+        is.extend_from_slice(&r.curve.id_sat);
+    }
+    let mut g = fb.create_group("curves");
+    g.set_attr("layout", vs("flattened: point k's samples are [curve_offset[k], curve_offset[k] + curve_length[k]) of each dataset (points/curve_offset, points/curve_length); NaN = bias point not converged"));
+    for (name, units, data) in [
+        ("vgs_V", "V", &v),
+        ("id_lin_A_per_um", "A/um", &il),
+        ("id_sat_A_per_um", "A/um", &is),
+    ] {
+        g.create_dataset(name)
+            .with_f64_data(data)
+            .with_shape(&[total as u64])
+            .with_maxshape(&[MaxExtent::Unlimited])
+            .with_chunks(&[chunk(total, 4096)])
+            .set_attr("units", vs(units));
+    }
+    g.create_dataset("point_index")
+        .with_i64_data(&pi)
+        .with_shape(&[total as u64])
+        .with_maxshape(&[MaxExtent::Unlimited])
+        .with_chunks(&[chunk(total, 4096)])
+        .set_attr("units", vs("1"));
+    fb.add_group(g.finish());
+
+    // maps/
+    let mut g = fb.create_group("maps");
+    g.set_attr("layout", vs("maps/point_NNNNNN: potential at the off-state gate voltage; 2D arrays are [ny, nx] (nodes) or [ny-1, nx-1] (cells), row-major, x fastest"));
+    for r in &f.rows {
+        if let Some(map) = &r.map {
+            let mut mg = g.create_group(&map_name(r.index));
+            write_map(&mut mg, map);
+            g.add_group(mg.finish());
+        }
+    }
+    fb.add_group(g.finish());
+    fb.finish().map_err(|e| e.to_string())
+}
+
+/// Group name of a point's map.
+pub fn map_name(index: usize) -> String {
+    format!("point_{index:06}")
+}
+
+fn write_map(g: &mut hdf5_pure::GroupBuilder, m: &MapData) {
+    let (nx, ny) = (m.nx() as u64, m.ny() as u64);
+    g.create_dataset("x_nm")
+        .with_f64_data(&m.x_nm)
+        .with_shape(&[nx])
+        .set_attr("units", vs("nm"));
+    g.create_dataset("y_nm")
+        .with_f64_data(&m.y_nm)
+        .with_shape(&[ny])
+        .set_attr("units", vs("nm"));
+    for (name, psi) in [("psi_lin_V", &m.psi_lin_v), ("psi_sat_V", &m.psi_sat_v)] {
+        if let Some(p) = psi {
+            g.create_dataset(name)
+                .with_f64_data(p)
+                .with_shape(&[ny, nx])
+                .set_attr("units", vs("V"));
+        }
+    }
+    g.create_dataset("material_code")
+        .with_i64_data(&m.material)
+        .with_shape(&[ny - 1, nx - 1])
+        .set_attr(
+            "units",
+            vs("1 (0 silicon, 1 dielectric, 2+k metal electrode k)"),
+        );
+    g.create_dataset("eps_r")
+        .with_f64_data(&m.eps_r)
+        .with_shape(&[ny - 1, nx - 1])
+        .set_attr("units", vs("1"));
+    g.set_attr("eg_eV", AttrValue::F64(m.eg_ev));
+    g.set_attr("carrier_sign", AttrValue::F64(m.carrier_sign));
+    g.set_attr("gate_start_nm", AttrValue::F64(m.gate_start_nm));
+    g.set_attr("gate_end_nm", AttrValue::F64(m.gate_end_nm));
+    g.set_attr(
+        "leakiest_depth_lin_nm",
+        AttrValue::F64(m.leakiest_depth_lin_nm.unwrap_or(f64::NAN)),
+    );
+    g.set_attr(
+        "leakiest_depth_sat_nm",
+        AttrValue::F64(m.leakiest_depth_sat_nm.unwrap_or(f64::NAN)),
+    );
+}
+
+/// Writes `f` to `path` atomically (temporary file, fsync, rename).
+pub fn write_sweep(path: &Path, f: &SweepFile) -> Result<(), IoError> {
+    let bytes = to_bytes(f).map_err(|e| h5err(path, "/", e))?;
+    let tmp = tmp_path(path);
+    let fe = |e: std::io::Error| IoError::File {
+        path: tmp.display().to_string(),
+        reason: e.to_string(),
+    };
+    {
+        let mut out = std::fs::File::create(&tmp).map_err(fe)?;
+        out.write_all(&bytes).map_err(fe)?;
+        out.sync_all().map_err(fe)?;
+    }
+    std::fs::rename(&tmp, path).map_err(|e| IoError::File {
+        path: path.display().to_string(),
+        reason: format!("cannot replace with {}: {e}", tmp.display()),
+    })
+}
+
+fn tmp_path(path: &Path) -> PathBuf {
+    let mut s = path.as_os_str().to_owned();
+    s.push(".tmp");
+    PathBuf::from(s)
+}
+
+fn attr_string(attrs: &HashMap<String, AttrValue>, name: &str) -> Option<String> {
+    match attrs.get(name)? {
+        AttrValue::VarLenString(s) | AttrValue::String(s) | AttrValue::AsciiString(s) => {
+            Some(s.clone())
+        }
+        _ => None,
+    }
+}
+
+fn attr_f64(attrs: &HashMap<String, AttrValue>, name: &str) -> Option<f64> {
+    match attrs.get(name)? {
+        AttrValue::F64(x) => Some(*x),
+        AttrValue::I64(x) => Some(*x as f64),
+        _ => None,
+    }
+}
+
+fn finite(x: f64) -> Option<f64> {
+    x.is_finite().then_some(x)
+}
+
+/// Reads a sweep file back (any file this module wrote, partial or complete).
+pub fn read_sweep(path: &Path) -> Result<SweepFile, IoError> {
+    let file = File::open(path).map_err(|e| IoError::File {
+        path: path.display().to_string(),
+        reason: e.to_string(),
+    })?;
+    let root = file.root().attrs().map_err(|e| h5err(path, "/", e))?;
+    let not = |reason: String| IoError::NotSweep {
+        path: path.display().to_string(),
+        reason,
+    };
+    let req = |name: &str| {
+        attr_string(&root, name).ok_or_else(|| not(format!("root attribute `{name}` missing")))
+    };
+    if req("format")? != FORMAT {
+        return Err(not(format!("root attribute `format` is not \"{FORMAT}\"")));
+    }
+    let shard = req("shard")?;
+    let (si, sc) = shard
+        .split_once('/')
+        .and_then(|(a, b)| Some((a.parse::<usize>().ok()?, b.parse::<usize>().ok()?)))
+        .filter(|(a, b)| a < b)
+        .ok_or_else(|| not(format!("bad shard attribute \"{shard}\"")))?;
+    let meta = SweepMeta {
+        tool_version: req("tool_version")?,
+        plan: req("plan")?,
+        created: req("created")?,
+        command_line: req("command_line")?,
+        model_summary: req("model_summary")?,
+        started: req("started")?,
+        finished: req("finished")?,
+        shard_index: si,
+        shard_count: sc,
+        points_total: attr_f64(&root, "points_total")
+            .ok_or_else(|| not("root attribute `points_total` missing".into()))?
+            as usize,
+    };
+    let axis_keys: Vec<String> = serde_json::from_str(&req("axis_columns")?)
+        .map_err(|e| not(format!("axis_columns: {e}")))?;
+    let figures: Vec<String> = serde_json::from_str(&req("figure_columns")?)
+        .map_err(|e| not(format!("figure_columns: {e}")))?;
+
+    let ds = |name: &str| file.dataset(name).map_err(|e| h5err(path, name, e));
+    let f64s = |name: &str| ds(name)?.read_f64().map_err(|e| h5err(path, name, e));
+    let i64s = |name: &str| ds(name)?.read_i64().map_err(|e| h5err(path, name, e));
+    let strs = |name: &str| -> Result<Vec<String>, IoError> {
+        Ok(ds(name)?
+            .read_string()
+            .map_err(|e| h5err(path, name, e))?
+            .into_iter()
+            .map(|s| s.trim_end_matches(['\0', ' ']).to_string())
+            .collect())
+    };
+    let index = i64s("points/point_index")?;
+    let n = index.len();
+    let mut axes = Vec::new();
+    let mut axis_vals: Vec<Vec<AxisValue>> = Vec::new();
+    for key in &axis_keys {
+        let name = format!("points/{key}");
+        let (numeric, vals) = match ds(&name)?.read_f64() {
+            Ok(v) => (true, v.into_iter().map(AxisValue::Number).collect()),
+            Err(_) => (
+                false,
+                strs(&name)?.into_iter().map(AxisValue::Text).collect(),
+            ),
+        };
+        axes.push(AxisColumn {
+            key: key.clone(),
+            numeric,
+        });
+        axis_vals.push(vals);
+    }
+    let fig_vals: Vec<Vec<f64>> = figures
+        .iter()
+        .map(|f| f64s(&format!("points/{f}")))
+        .collect::<Result<_, _>>()?;
+    let status = strs("points/status")?;
+    let meets = i64s("points/meets_criteria")?;
+    let steps = i64s("points/newton_steps_total")?;
+    let elapsed = f64s("points/elapsed_s")?;
+    let (vl, vsat) = (f64s("points/vds_lin_V")?, f64s("points/vds_sat_V")?);
+    let offs = i64s("points/curve_offset")?;
+    let lens = i64s("points/curve_length")?;
+    let (cv, cl, cs) = (
+        f64s("curves/vgs_V")?,
+        f64s("curves/id_lin_A_per_um")?,
+        f64s("curves/id_sat_A_per_um")?,
+    );
+    let map_groups: Vec<String> = file
+        .group("maps")
+        .and_then(|g| g.groups())
+        .map_err(|e| h5err(path, "maps", e))?;
+    let mut rows = Vec::with_capacity(n);
+    for k in 0..n {
+        let idx = index[k] as usize;
+        let (o, l) = (offs[k] as usize, lens[k] as usize);
+        if o + l > cv.len() {
+            return Err(not(format!(
+                "point {idx}: curve slice {o}+{l} beyond curves length {}",
+                cv.len()
+            )));
+        }
+        let name = map_name(idx);
+        let map = if map_groups
+            .iter()
+            .any(|g| g.trim_start_matches('/').ends_with(&name))
+        {
+            Some(read_map(&file, path, &format!("maps/{name}"))?)
+        } else {
+            None
+        };
+        rows.push(PointRow {
+            index: idx,
+            axis: axis_vals.iter().map(|v| v[k].clone()).collect(),
+            figures: fig_vals.iter().map(|v| finite(v[k])).collect(),
+            status: status[k].clone(),
+            meets_criteria: meets[k],
+            newton_steps: steps[k],
+            vds_v: (vl[k], vsat[k]),
+            elapsed_s: elapsed[k],
+            curve: CurveData {
+                vgs_v: cv[o..o + l].to_vec(),
+                id_lin: cl[o..o + l].to_vec(),
+                id_sat: cs[o..o + l].to_vec(),
+            },
+            map,
+        });
+    }
+    rows.sort_by_key(|r| r.index);
+    Ok(SweepFile {
+        meta,
+        axes,
+        figures,
+        rows,
+    })
+}
+
+fn read_map(file: &File, path: &Path, g: &str) -> Result<MapData, IoError> {
+    let ds = |name: &str| file.dataset(&format!("{g}/{name}"));
+    let f = |name: &str| {
+        ds(name)
+            .and_then(|d| d.read_f64())
+            .map_err(|e| h5err(path, &format!("{g}/{name}"), e))
+    };
+    let attrs = file
+        .group(g)
+        .and_then(|x| x.attrs())
+        .map_err(|e| h5err(path, g, e))?;
+    let a = |name: &str| attr_f64(&attrs, name).unwrap_or(f64::NAN);
+    Ok(MapData {
+        x_nm: f("x_nm")?,
+        y_nm: f("y_nm")?,
+        psi_lin_v: ds("psi_lin_V").ok().and_then(|d| d.read_f64().ok()),
+        psi_sat_v: ds("psi_sat_V").ok().and_then(|d| d.read_f64().ok()),
+        material: ds("material_code")
+            .and_then(|d| d.read_i64())
+            .map_err(|e| h5err(path, &format!("{g}/material_code"), e))?,
+        eps_r: f("eps_r")?,
+        eg_ev: a("eg_eV"),
+        carrier_sign: a("carrier_sign"),
+        gate_start_nm: a("gate_start_nm"),
+        gate_end_nm: a("gate_end_nm"),
+        leakiest_depth_lin_nm: finite(a("leakiest_depth_lin_nm")),
+        leakiest_depth_sat_nm: finite(a("leakiest_depth_sat_nm")),
+    })
+}

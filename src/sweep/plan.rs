@@ -1,0 +1,690 @@
+//! Plan files: a base device and the axes that vary it (DEVICE-FORMAT.md, "Plan files").
+//!
+//! Order of points (a contract of this module): the axes in the order written
+//! in `[axes]`, then the `[zip]` group as one more axis; the **last axis varies
+//! fastest** (as nested loops written in that order). Point `k` is the `k`-th
+//! element of that product, counting from 0.
+//!
+//! Every point's device is built and validated with
+//! [`crate::device::scenario_from_table`] when the plan is parsed, before any
+//! solving: a single invalid point fails the whole plan up front with the
+//! point's index and axis values ([`PlanError::Point`]).
+
+use std::collections::BTreeSet;
+use std::path::{Path, PathBuf};
+
+use toml::Value;
+
+use crate::device::{closest, known_keys, parse_table, scenario_from_table, DeviceError, Scenario};
+
+/// Keys a plan file may hold at its top level.
+pub const PLAN_KEYS: &[&str] = &["base", "axes", "zip", "output", "criteria"];
+/// Keys of `[output]`.
+pub const OUTPUT_KEYS: &[&str] = &["maps"];
+/// Keys of `[criteria]` (screening pass/fail thresholds; each optional).
+pub const CRITERIA_KEYS: &[&str] = &[
+    "dibl_max_mV_per_V",
+    "ss_max_mV_per_dec",
+    "vt_rolloff_max_mV",
+];
+/// Largest number of points a plan may expand to.
+pub const MAX_POINTS: usize = 10_000_000;
+
+/// What is wrong with a plan file.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+pub enum PlanError {
+    #[error("cannot read {path}: {reason}")]
+    Io { path: String, reason: String },
+    #[error("plan is not valid TOML: {0}")]
+    Syntax(String),
+    #[error("plan: unknown key `{key}`{}", suggestion.as_ref().map(|s| format!(" (did you mean `{s}`?)")).unwrap_or_default())]
+    UnknownKey {
+        key: String,
+        suggestion: Option<String>,
+    },
+    #[error("plan: `{key}` = {value}: {reason}")]
+    Invalid {
+        key: String,
+        value: String,
+        reason: String,
+    },
+    #[error("plan: base device `{path}`: {error}")]
+    Base { path: String, error: DeviceError },
+    #[error("plan point {index} ({values}): {error}")]
+    Point {
+        index: usize,
+        values: String,
+        error: DeviceError,
+    },
+}
+
+fn invalid(key: &str, value: impl std::fmt::Display, reason: impl Into<String>) -> PlanError {
+    PlanError::Invalid {
+        key: key.into(),
+        value: value.to_string(),
+        reason: reason.into(),
+    }
+}
+
+pub use crate::io::AxisValue;
+
+fn to_toml(v: &AxisValue) -> Value {
+    match v {
+        AxisValue::Number(x) if x.fract() == 0.0 && x.abs() < 9e15 => Value::Integer(*x as i64),
+        AxisValue::Number(x) => Value::Float(*x),
+        AxisValue::Text(s) => Value::String(s.clone()),
+    }
+}
+
+/// One varied key: its dotted path and the values it takes, in order.
+#[derive(Debug, Clone, PartialEq)]
+pub struct AxisKey {
+    pub key: String,
+    pub values: Vec<AxisValue>,
+    /// True when every value is a number (the HDF5 column is f64), else every value is text.
+    pub numeric: bool,
+}
+
+/// One axis of the product: a single `[axes]` key, or the whole `[zip]` group.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Axis {
+    pub keys: Vec<AxisKey>,
+}
+
+impl Axis {
+    pub fn len(&self) -> usize {
+        self.keys[0].values.len()
+    }
+    pub fn is_empty(&self) -> bool {
+        self.len() == 0
+    }
+}
+
+/// Pass/fail thresholds from `[criteria]` (each optional).
+#[derive(Debug, Clone, Default, PartialEq)]
+pub struct Criteria {
+    pub dibl_max_mv_per_v: Option<f64>,
+    pub ss_max_mv_per_dec: Option<f64>,
+    /// Bound on |V_t roll-off|, mV.
+    pub vt_rolloff_max_mv: Option<f64>,
+}
+
+impl Criteria {
+    pub fn is_empty(&self) -> bool {
+        *self == Criteria::default()
+    }
+
+    /// 1: every criterion met; 0: one failed; -1: a needed figure is missing
+    /// (or no criteria were given).
+    pub fn judge(
+        &self,
+        dibl: Option<f64>,
+        ss_lin: Option<f64>,
+        ss_sat: Option<f64>,
+        rolloff: Option<f64>,
+    ) -> i64 {
+        if self.is_empty() {
+            return -1;
+        }
+        let mut checks: Vec<Option<bool>> = Vec::new();
+        if let Some(m) = self.dibl_max_mv_per_v {
+            checks.push(dibl.map(|d| d <= m));
+        }
+        if let Some(m) = self.ss_max_mv_per_dec {
+            checks.push(ss_lin.zip(ss_sat).map(|(a, b)| a.max(b) <= m));
+        }
+        if let Some(m) = self.vt_rolloff_max_mv {
+            checks.push(rolloff.map(|r| r.abs() <= m));
+        }
+        if checks.contains(&Some(false)) {
+            0
+        } else if checks.iter().all(|c| c.is_some()) {
+            1
+        } else {
+            -1
+        }
+    }
+}
+
+/// One point of the product with its validated device.
+#[derive(Debug, Clone)]
+pub struct PlanPoint {
+    pub index: usize,
+    /// One value per column of [`Plan::columns`].
+    pub values: Vec<AxisValue>,
+    pub scenario: Scenario,
+}
+
+/// A parsed, fully validated plan.
+#[derive(Debug, Clone)]
+pub struct Plan {
+    /// The plan file's text (stored in outputs; resume and merge compare it).
+    pub text: String,
+    /// The base device table (with no axis applied).
+    pub base: toml::Table,
+    pub axes: Vec<Axis>,
+    pub points: Vec<PlanPoint>,
+    /// Point indices whose potential maps are stored.
+    pub maps: BTreeSet<usize>,
+    pub criteria: Criteria,
+}
+
+impl Plan {
+    /// Every varied key in column order (axes as written, then the zip keys).
+    pub fn columns(&self) -> Vec<&AxisKey> {
+        self.axes.iter().flat_map(|a| a.keys.iter()).collect()
+    }
+
+    /// "key = value, ..." for one point.
+    pub fn describe(&self, index: usize) -> String {
+        describe(&self.columns(), &self.points[index].values)
+    }
+}
+
+fn describe(cols: &[&AxisKey], values: &[AxisValue]) -> String {
+    cols.iter()
+        .zip(values)
+        .map(|(c, v)| format!("{} = {v}", c.key))
+        .collect::<Vec<_>>()
+        .join(", ")
+}
+
+/// Reads and validates a plan file; `base` is resolved relative to its folder.
+pub fn load_plan(path: &Path) -> Result<Plan, PlanError> {
+    let text = std::fs::read_to_string(path).map_err(|e| PlanError::Io {
+        path: path.display().to_string(),
+        reason: e.to_string(),
+    })?;
+    let dir = path
+        .parent()
+        .map(Path::to_path_buf)
+        .unwrap_or_else(|| PathBuf::from("."));
+    parse_plan(&text, &dir)
+}
+
+/// Parses and validates plan text; a `base` path is resolved relative to `base_dir`.
+pub fn parse_plan(text: &str, base_dir: &Path) -> Result<Plan, PlanError> {
+    let root: toml::Table = text
+        .parse()
+        .map_err(|e: toml::de::Error| PlanError::Syntax(e.to_string()))?;
+    for k in root.keys() {
+        if !PLAN_KEYS.contains(&k.as_str()) {
+            return Err(PlanError::UnknownKey {
+                key: k.clone(),
+                suggestion: closest(k, PLAN_KEYS.iter().copied()),
+            });
+        }
+    }
+    let base = match root.get("base") {
+        None => {
+            return Err(invalid(
+                "base",
+                "(missing)",
+                "a plan needs `base = \"device.toml\"` or an inline [base] table",
+            ))
+        }
+        Some(Value::String(p)) => {
+            let path = base_dir.join(p);
+            let t = std::fs::read_to_string(&path).map_err(|e| PlanError::Base {
+                path: path.display().to_string(),
+                error: DeviceError::Io {
+                    path: path.display().to_string(),
+                    reason: e.to_string(),
+                },
+            })?;
+            parse_table(&t).map_err(|error| PlanError::Base {
+                path: path.display().to_string(),
+                error,
+            })?
+        }
+        Some(Value::Table(t)) => t.clone(),
+        Some(other) => {
+            return Err(invalid(
+                "base",
+                other,
+                "must be a device file path (string) or a [base] table",
+            ))
+        }
+    };
+
+    let mut axes = Vec::new();
+    let mut seen = BTreeSet::new();
+    if let Some(v) = root.get("axes") {
+        let t = v
+            .as_table()
+            .ok_or_else(|| invalid("axes", v, "must be a table ([axes])"))?;
+        for (k, v) in t {
+            let full = format!("axes.{k}");
+            let key = axis_key(&base, k, v, &full)?;
+            seen.insert(k.clone());
+            axes.push(Axis { keys: vec![key] });
+        }
+    }
+    if let Some(v) = root.get("zip") {
+        let t = v
+            .as_table()
+            .ok_or_else(|| invalid("zip", v, "must be a table ([zip])"))?;
+        let mut keys: Vec<AxisKey> = Vec::new();
+        for (k, v) in t {
+            let full = format!("zip.{k}");
+            if seen.contains(k) {
+                return Err(invalid(
+                    &full,
+                    v,
+                    "this key is already an [axes] key; a key may vary in one place only",
+                ));
+            }
+            let key = axis_key(&base, k, v, &full)?;
+            if let Some(first) = keys.first() {
+                if first.values.len() != key.values.len() {
+                    return Err(invalid(
+                        &full,
+                        format!("{} values", key.values.len()),
+                        format!(
+                            "[zip] keys vary together and need equal lengths: `zip.{}` has {}",
+                            first.key,
+                            first.values.len()
+                        ),
+                    ));
+                }
+            }
+            keys.push(key);
+        }
+        if !keys.is_empty() {
+            axes.push(Axis { keys });
+        }
+    }
+
+    let criteria = parse_criteria(&root)?;
+    let total = axes
+        .iter()
+        .try_fold(1usize, |acc, a| acc.checked_mul(a.len()))
+        .unwrap_or(usize::MAX);
+    if total > MAX_POINTS {
+        return Err(invalid(
+            "axes",
+            format!("{total} points"),
+            format!("more than {MAX_POINTS} points"),
+        ));
+    }
+    let maps = parse_maps(&root, total)?;
+
+    // Expand the product (last axis fastest) and validate every point's device.
+    let cols: Vec<&AxisKey> = axes.iter().flat_map(|a| a.keys.iter()).collect();
+    let mut points = Vec::with_capacity(total);
+    let mut digits = vec![0usize; axes.len()];
+    for index in 0..total {
+        let mut rem = index;
+        for (a, d) in axes.iter().zip(digits.iter_mut()).rev() {
+            *d = rem % a.len();
+            rem /= a.len();
+        }
+        let mut values = Vec::with_capacity(cols.len());
+        let mut table = base.clone();
+        for (a, &d) in axes.iter().zip(&digits) {
+            for k in &a.keys {
+                let v = k.values[d].clone();
+                set_path(&mut table, &k.key, to_toml(&v))
+                    .map_err(|reason| invalid(&k.key, &v, reason))?;
+                values.push(v);
+            }
+        }
+        let scenario = scenario_from_table(&table).map_err(|error| PlanError::Point {
+            index,
+            values: describe(&cols, &values),
+            error,
+        })?;
+        points.push(PlanPoint {
+            index,
+            values,
+            scenario,
+        });
+    }
+    Ok(Plan {
+        text: text.to_string(),
+        base,
+        axes,
+        points,
+        maps,
+        criteria,
+    })
+}
+
+fn parse_criteria(root: &toml::Table) -> Result<Criteria, PlanError> {
+    let mut c = Criteria::default();
+    let Some(v) = root.get("criteria") else {
+        return Ok(c);
+    };
+    let t = v
+        .as_table()
+        .ok_or_else(|| invalid("criteria", v, "must be a table ([criteria])"))?;
+    for (k, v) in t {
+        let full = format!("criteria.{k}");
+        let x = match v {
+            Value::Integer(i) => *i as f64,
+            Value::Float(f) => *f,
+            other => {
+                if !CRITERIA_KEYS.contains(&k.as_str()) {
+                    return Err(PlanError::UnknownKey {
+                        key: full,
+                        suggestion: closest(k, CRITERIA_KEYS.iter().copied())
+                            .map(|s| format!("criteria.{s}")),
+                    });
+                }
+                return Err(invalid(&full, other, "must be a number"));
+            }
+        };
+        if !x.is_finite() || x <= 0.0 {
+            return Err(invalid(&full, x, "must be a positive number"));
+        }
+        match k.as_str() {
+            "dibl_max_mV_per_V" => c.dibl_max_mv_per_v = Some(x),
+            "ss_max_mV_per_dec" => c.ss_max_mv_per_dec = Some(x),
+            "vt_rolloff_max_mV" => c.vt_rolloff_max_mv = Some(x),
+            _ => {
+                return Err(PlanError::UnknownKey {
+                    key: full,
+                    suggestion: closest(k, CRITERIA_KEYS.iter().copied())
+                        .map(|s| format!("criteria.{s}")),
+                })
+            }
+        }
+    }
+    Ok(c)
+}
+
+fn parse_maps(root: &toml::Table, total: usize) -> Result<BTreeSet<usize>, PlanError> {
+    let mut maps = BTreeSet::new();
+    let Some(v) = root.get("output") else {
+        return Ok(maps);
+    };
+    let t = v
+        .as_table()
+        .ok_or_else(|| invalid("output", v, "must be a table ([output])"))?;
+    for k in t.keys() {
+        if !OUTPUT_KEYS.contains(&k.as_str()) {
+            return Err(PlanError::UnknownKey {
+                key: format!("output.{k}"),
+                suggestion: closest(k, OUTPUT_KEYS.iter().copied()).map(|s| format!("output.{s}")),
+            });
+        }
+    }
+    match t.get("maps") {
+        None => {}
+        Some(Value::String(s)) if s == "all" => maps.extend(0..total),
+        Some(Value::Array(a)) => {
+            for x in a {
+                match x.as_integer() {
+                    Some(i) if i >= 0 && (i as usize) < total => {
+                        maps.insert(i as usize);
+                    }
+                    Some(i) => {
+                        return Err(invalid(
+                            "output.maps",
+                            i,
+                            format!(
+                                "point index out of range: the plan has {total} points (0 to {})",
+                                total.saturating_sub(1)
+                            ),
+                        ))
+                    }
+                    None => {
+                        return Err(invalid(
+                            "output.maps",
+                            x,
+                            "must be point indices (integers from 0) or \"all\"",
+                        ))
+                    }
+                }
+            }
+        }
+        Some(other) => {
+            return Err(invalid(
+                "output.maps",
+                other,
+                "must be an array of point indices or \"all\"",
+            ))
+        }
+    }
+    Ok(maps)
+}
+
+/// The known-keys form of a dotted path: numeric segments become `N`.
+fn generic_path(key: &str) -> String {
+    key.split('.')
+        .map(|s| {
+            if !s.is_empty() && s.bytes().all(|b| b.is_ascii_digit()) {
+                "N"
+            } else {
+                s
+            }
+        })
+        .collect::<Vec<_>>()
+        .join(".")
+}
+
+fn axis_key(base: &toml::Table, key: &str, v: &Value, full: &str) -> Result<AxisKey, PlanError> {
+    let known = known_keys();
+    let generic = generic_path(key);
+    if !known.contains(&generic) {
+        let suggestion = closest(&generic, known.iter().map(String::as_str)).map(|s| {
+            // Put the user's array index back into the suggestion.
+            match key
+                .split('.')
+                .find(|s| s.bytes().all(|b| b.is_ascii_digit()))
+            {
+                Some(n) => s.replace(".N.", &format!(".{n}.")),
+                None => s,
+            }
+        });
+        return Err(PlanError::UnknownKey {
+            key: full.to_string(),
+            suggestion: suggestion
+                .map(|s| format!("{}.{s}", full.split('.').next().unwrap_or("axes"))),
+        });
+    }
+    let values = match v {
+        Value::Array(a) => {
+            if a.is_empty() {
+                return Err(invalid(full, "[]", "an axis needs at least one value"));
+            }
+            a.iter()
+                .map(|x| match x {
+                    Value::Integer(i) => Ok(AxisValue::Number(*i as f64)),
+                    Value::Float(f) if f.is_finite() => Ok(AxisValue::Number(*f)),
+                    Value::String(s) => Ok(AxisValue::Text(s.clone())),
+                    other => Err(invalid(
+                        full,
+                        other,
+                        "axis values must be finite numbers or strings",
+                    )),
+                })
+                .collect::<Result<Vec<_>, _>>()?
+        }
+        Value::Table(t) => range(t, full)?,
+        other => {
+            return Err(invalid(
+                full,
+                other,
+                "must be an array of values or a range { start, stop, step }",
+            ))
+        }
+    };
+    let numeric = values.iter().all(|x| matches!(x, AxisValue::Number(_)));
+    if !numeric && !values.iter().all(|x| matches!(x, AxisValue::Text(_))) {
+        return Err(invalid(
+            full,
+            v,
+            "mixes numbers and strings; an axis holds one kind",
+        ));
+    }
+    // The path must be settable in the base (array indices must exist).
+    let mut probe = base.clone();
+    set_path(&mut probe, key, to_toml(&values[0])).map_err(|reason| invalid(full, v, reason))?;
+    Ok(AxisKey {
+        key: key.to_string(),
+        values,
+        numeric,
+    })
+}
+
+fn range(t: &toml::Table, full: &str) -> Result<Vec<AxisValue>, PlanError> {
+    const KEYS: [&str; 3] = ["start", "stop", "step"];
+    for k in t.keys() {
+        if !KEYS.contains(&k.as_str()) {
+            return Err(PlanError::UnknownKey {
+                key: format!("{full}.{k}"),
+                suggestion: closest(k, KEYS).map(|s| format!("{full}.{s}")),
+            });
+        }
+    }
+    let num = |k: &str| -> Result<f64, PlanError> {
+        match t.get(k) {
+            Some(Value::Integer(i)) => Ok(*i as f64),
+            Some(Value::Float(f)) if f.is_finite() => Ok(*f),
+            Some(other) => Err(invalid(
+                &format!("{full}.{k}"),
+                other,
+                "must be a finite number",
+            )),
+            None => Err(invalid(
+                &format!("{full}.{k}"),
+                "(missing)",
+                "a range needs start, stop and step",
+            )),
+        }
+    };
+    let (a, b, s) = (num("start")?, num("stop")?, num("step")?);
+    if s == 0.0 {
+        return Err(invalid(&format!("{full}.step"), s, "must not be zero"));
+    }
+    if (b - a) * s < 0.0 {
+        return Err(invalid(
+            &format!("{full}.step"),
+            s,
+            format!("goes away from stop = {b} (start = {a})"),
+        ));
+    }
+    let n = ((b - a) / s + 1e-9).floor() + 1.0;
+    if n > MAX_POINTS as f64 {
+        return Err(invalid(
+            &format!("{full}.step"),
+            s,
+            format!("gives {n} values; at most {MAX_POINTS}"),
+        ));
+    }
+    // Values rounded to 12 significant digits so 0.1 steps print as typed.
+    Ok((0..n as usize)
+        .map(|k| AxisValue::Number(round12(a + k as f64 * s)))
+        .collect())
+}
+
+fn round12(x: f64) -> f64 {
+    if x == 0.0 {
+        return 0.0;
+    }
+    let e = 11 - x.abs().log10().floor() as i32;
+    let m = 10f64.powi(e);
+    (x * m).round() / m
+}
+
+/// Sets a dotted path in a device table, creating missing sub-tables; array
+/// elements are addressed by index and must exist.
+fn set_path(table: &mut toml::Table, key: &str, value: Value) -> Result<(), String> {
+    let parts: Vec<&str> = key.split('.').collect();
+    let (last, inner) = parts.split_last().ok_or("empty key")?;
+    let mut cur: &mut Value = table
+        .entry(parts[0].to_string())
+        .or_insert_with(|| Value::Table(Default::default()));
+    if inner.is_empty() {
+        *cur = value;
+        return Ok(());
+    }
+    for (depth, p) in parts.iter().enumerate().skip(1) {
+        let here = parts[..depth].join(".");
+        let is_last = depth == parts.len() - 1;
+        cur = match cur {
+            Value::Table(t) => {
+                if is_last {
+                    t.insert(last.to_string(), value);
+                    return Ok(());
+                }
+                t.entry(p.to_string())
+                    .or_insert_with(|| Value::Table(Default::default()))
+            }
+            Value::Array(a) => {
+                let i: usize = p.parse().map_err(|_| {
+                    format!("`{here}` is an array: address its elements by index (e.g. `{here}.0`)")
+                })?;
+                let n = a.len();
+                let el = a.get_mut(i).ok_or_else(|| {
+                    format!("index {i} out of range: the base device's `{here}` has {n} element(s)")
+                })?;
+                if is_last {
+                    *el = value;
+                    return Ok(());
+                }
+                el
+            }
+            other => {
+                return Err(format!(
+                    "`{here}` is a {} in the base device, not a table or array",
+                    other.type_str()
+                ))
+            }
+        };
+    }
+    Ok(())
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    const BASE: &str = r#"
+[base]
+name = "t"
+architecture = "double-gate"
+[base.geometry]
+gate_length_nm = 20
+body_thickness_nm = 6
+[[base.gate_stack]]
+material = "SiO2"
+thickness_nm = 0.8
+[[base.gate_stack]]
+material = "HfO2"
+thickness_nm = 2.0
+[base.gate]
+workfunction_eV = 4.55
+"#;
+
+    fn plan(rest: &str) -> Result<Plan, PlanError> {
+        parse_plan(&format!("{rest}\n{BASE}"), Path::new("."))
+    }
+
+    #[test]
+    fn range_inclusive_of_stop_and_rounded() {
+        let p = plan("[axes]\n\"bias.vgs_step_V\" = { start = 0.01, stop = 0.05, step = 0.01 }")
+            .unwrap();
+        let v: Vec<String> = p.axes[0].keys[0]
+            .values
+            .iter()
+            .map(|v| v.to_string())
+            .collect();
+        assert_eq!(v, ["0.01", "0.02", "0.03", "0.04", "0.05"]);
+    }
+
+    #[test]
+    fn set_path_indexes_arrays() {
+        let p = plan("[axes]\n\"gate_stack.1.thickness_nm\" = [1.0, 3.0]").unwrap();
+        assert_eq!(p.points.len(), 2);
+        assert!(p.points[1].scenario.eot_nm() > p.points[0].scenario.eot_nm());
+        let e = plan("[axes]\n\"gate_stack.2.thickness_nm\" = [1.0]")
+            .unwrap_err()
+            .to_string();
+        assert!(
+            e.contains("index 2 out of range") && e.contains("2 element"),
+            "{e}"
+        );
+    }
+}
