@@ -7,8 +7,10 @@ use std::process::ExitCode;
 
 use anyhow::{Context, Result};
 use clap::{Parser, Subcommand};
+
+mod cli_sweep;
 use gatehold::device::{load_device, template, Architecture};
-use gatehold::run::{run_device, Observer, Silent};
+use gatehold::run::{evaluate, Observer, Silent};
 
 #[derive(Parser)]
 #[command(
@@ -33,6 +35,9 @@ enum Command {
         /// Write the I_D-V_G curves to this CSV file.
         #[arg(long, value_name = "FILE.csv")]
         curves: Option<PathBuf>,
+        /// Write plots (I_D-V_G, potential map, band along the leakiest path) into this folder.
+        #[arg(long, value_name = "DIR")]
+        plots: Option<PathBuf>,
         /// No progress on stderr.
         #[arg(long)]
         quiet: bool,
@@ -59,6 +64,12 @@ enum Command {
         #[arg(long)]
         jobs: Option<usize>,
     },
+    /// Run a plan of geometries in parallel into one HDF5 file.
+    Sweep(cli_sweep::SweepArgs),
+    /// Join shard files of one plan into one HDF5 file.
+    Merge(cli_sweep::MergeArgs),
+    /// Plots from a sweep file: roll-off, DIBL and SS against L_g, I_D-V_G, maps.
+    Plot(cli_sweep::PlotArgs),
     /// Print a commented device file to start from.
     Template {
         /// bulk | thin-body | double-gate | tri-gate | gate-all-around | capped-fin
@@ -93,6 +104,7 @@ fn run(cli: Cli) -> Result<u8> {
             device,
             json,
             curves,
+            plots,
             quiet,
         } => {
             let s = load_device(&device)
@@ -103,11 +115,11 @@ fn run(cli: Cli) -> Result<u8> {
                 count: 0.into(),
             };
             let observer: &dyn Observer = if dots.enabled { &dots } else { &Silent };
-            let sol = run_device(&s, observer)?;
+            let ev = evaluate(&s, observer)?;
             if dots.enabled {
                 eprintln!();
             }
-            let r = &sol.report;
+            let r = &ev.report;
             if json {
                 println!("{}", serde_json::to_string_pretty(r)?);
             } else {
@@ -116,6 +128,16 @@ fn run(cli: Cli) -> Result<u8> {
             if let Some(path) = curves {
                 std::fs::write(&path, gatehold::summary::curves_csv(r))
                     .with_context(|| format!("writing {}", path.display()))?;
+            }
+            if let Some(dir) = plots {
+                match &ev.solution {
+                    Some(sol) => {
+                        for p in gatehold::plot::device_plots(sol, &dir)? {
+                            eprintln!("wrote {}", p.display());
+                        }
+                    }
+                    None => eprintln!("no plots: {} devices are predicted from theory, not solved along the channel", s.architecture),
+                }
             }
             Ok(if r.problems.is_empty() { 0 } else { 2 })
         }
@@ -161,6 +183,14 @@ fn run(cli: Cli) -> Result<u8> {
                 2
             })
         }
+        // Sweep handlers: 0 all ok, 1 some point failed, 3 stopped early.
+        Command::Sweep(a) => Ok(match cli_sweep::sweep(&a)? {
+            0 => 0,
+            1 => 2,
+            _ => 3,
+        }),
+        Command::Merge(a) => Ok(if cli_sweep::merge(&a)? == 0 { 0 } else { 2 }),
+        Command::Plot(a) => Ok(cli_sweep::plot(&a)? as u8),
         Command::Template { architecture } => {
             let arch = Architecture::from_name(&architecture).with_context(|| {
                 format!(

@@ -47,6 +47,8 @@ pub enum RunError {
     NotPlanar(Architecture),
     #[error(transparent)]
     Solve(#[from] SolveError),
+    #[error(transparent)]
+    Theory(#[from] crate::theory::TheoryError),
 }
 
 /// One solved bias point.
@@ -307,6 +309,11 @@ pub struct DeviceReport {
     pub leakiest_depth_nm: Option<f64>,
     pub natural_length_nm: Option<f64>,
     pub natural_length_formula: Option<String>,
+    /// Numeric natural length of the stack (planar) or cross-section (fins), nm.
+    pub lambda_numeric_nm: Option<f64>,
+    /// "2d-solve" (along-channel solve) or "theory" (fins and wires: the
+    /// cross-section solve for the long channel, Liu et al. 1993 for the short-channel figures).
+    pub method: String,
     pub converged: bool,
     pub nodes: usize,
     pub unknowns: usize,
@@ -355,6 +362,7 @@ impl DeviceReport {
             ("barrier_lowering_meV", self.barrier_lowering_mev),
             ("leakiest_depth_nm", self.leakiest_depth_nm),
             ("natural_length_nm", self.natural_length_nm),
+            ("lambda_numeric_nm", self.lambda_numeric_nm),
         ]
     }
 }
@@ -468,6 +476,13 @@ pub fn run_device(s: &Scenario, observer: &dyn Observer) -> Result<DeviceSolutio
             / (s.bias.vds_sat_v - s.bias.vds_lin_v).abs()
     });
     let closed = closed_form::natural_length(s);
+    let lambda_numeric_nm = match crate::theory::lambda_report(s) {
+        Ok(l) => Some(l.lambda_numeric_nm),
+        Err(e) => {
+            problems.push(format!("numeric natural length: {e}"));
+            None
+        }
+    };
     let (vgs, id_lin) = ascending(&lin);
     let (_, id_sat) = ascending(&sat);
     let converged = lin
@@ -501,6 +516,8 @@ pub fn run_device(s: &Scenario, observer: &dyn Observer) -> Result<DeviceSolutio
         leakiest_depth_nm: barrier_sat.map(|b| b.depth_nm),
         natural_length_nm: closed.map(|c| c.1),
         natural_length_formula: closed.map(|c| c.0.to_string()),
+        lambda_numeric_nm,
+        method: "2d-solve".into(),
         converged,
         nodes: p.node_count(),
         unknowns,
@@ -526,5 +543,89 @@ pub fn run_device(s: &Scenario, observer: &dyn Observer) -> Result<DeviceSolutio
         sat,
         barrier_lin,
         barrier_sat,
+    })
+}
+
+/// The result of one device of any architecture.
+#[derive(Debug, Clone)]
+pub struct Evaluation {
+    pub report: DeviceReport,
+    /// The 2D solution (planar devices only).
+    pub solution: Option<DeviceSolution>,
+}
+
+/// Planar devices: the 2D along-channel solve ([`run_device`]). Fins and
+/// wires: the long-channel cross-section solve and the theory from the
+/// numeric natural length ([`crate::theory::predict_fin`]), reported in the
+/// same form with `method` = "theory" and no curves or barriers.
+pub fn evaluate(s: &Scenario, observer: &dyn Observer) -> Result<Evaluation, RunError> {
+    if s.architecture.is_planar() {
+        let sol = run_device(s, observer)?;
+        return Ok(Evaluation {
+            report: sol.report.clone(),
+            solution: Some(sol),
+        });
+    }
+    let f = crate::theory::predict_fin(s)?;
+    let closed = closed_form::natural_length(s);
+    let ni = crate::physics::Silicon::at(s.temperature_k).ni;
+    let report = DeviceReport {
+        name: s.name.clone(),
+        architecture: s.architecture.name().into(),
+        polarity: s.polarity.name().into(),
+        temperature_k: s.temperature_k,
+        gate_length_nm: s.geometry.gate_length_nm,
+        l_met_nm: crate::structure::DopingProfile::of(s).metallurgical_length(ni),
+        eot_nm: s.eot_nm(),
+        vt_lin_v: Some(f.vt_lin_v),
+        vt_sat_v: Some(f.vt_sat_v),
+        ss_lin_mv_per_dec: Some(f.ss_mv_per_dec),
+        ss_sat_mv_per_dec: Some(f.ss_mv_per_dec),
+        dibl_mv_per_v: Some(f.dibl_mv_per_v),
+        dibl_long_floor_mv_per_v: None,
+        vt_long_v: Some(f.vt_long_v),
+        ss_long_mv_per_dec: Some(f.ss_long_mv_per_dec),
+        vt_rolloff_mv: Some(1000.0 * f.roll_off_lin_v),
+        barrier_lin_ev: None,
+        barrier_sat_ev: None,
+        barrier_lowering_mev: None,
+        leakiest_depth_nm: None,
+        natural_length_nm: closed.map(|c| c.1),
+        natural_length_formula: closed.map(|c| c.0.to_string()),
+        lambda_numeric_nm: Some(f.lambda_nm),
+        method: "theory".into(),
+        converged: true,
+        nodes: f.cross_section_nodes,
+        unknowns: 0,
+        newton_steps_total: f.newton_steps,
+        factorisations_total: 0,
+        bias_points: 0,
+        vds_lin_v: s.bias.vds_lin_v,
+        vds_sat_v: s.bias.vds_sat_v,
+        current_criterion_a: s.extraction.current_criterion_a,
+        threshold_current_a_per_um: s.extraction.current_criterion_a
+            / (s.geometry.gate_length_nm * 1e-3),
+        vgs_v: Vec::new(),
+        id_lin: Vec::new(),
+        id_sat: Vec::new(),
+        current_unit: format!(
+            "A per device of width W = {:.2} nm ({})",
+            f.width_nm, f.width_definition
+        ),
+        problems: Vec::new(),
+        warnings: {
+            let mut w = s.warnings.clone();
+            w.push(format!(
+                "{}: short-channel figures are theory (Liu et al. 1993 with the numeric natural length {:.2} nm), \
+                 not an along-channel solve; barrier lowering and I-V curves are not computed",
+                s.architecture, f.lambda_nm
+            ));
+            w
+        },
+        caution: CAUTION.into(),
+    };
+    Ok(Evaluation {
+        report,
+        solution: None,
     })
 }

@@ -31,7 +31,7 @@ use rayon::prelude::*;
 
 use crate::io::hdf5::{read_sweep, write_sweep};
 use crate::io::{rfc3339, AxisColumn, CurveData, IoError, MapData, PointRow, SweepFile, SweepMeta};
-use crate::run::{run_device, Silent, CAUTION};
+use crate::run::{evaluate, Silent, CAUTION};
 
 pub use plan::{load_plan, parse_plan, Plan, PlanError};
 
@@ -216,9 +216,9 @@ pub fn solve_point(
         map: None,
     };
     let mut named = Vec::new();
-    match run_device(&p.scenario, &Silent) {
-        Ok(sol) => {
-            let r = &sol.report;
+    match evaluate(&p.scenario, &Silent) {
+        Ok(ev) => {
+            let r = &ev.report;
             named = r
                 .scalars()
                 .into_iter()
@@ -245,7 +245,7 @@ pub fn solve_point(
                 id_sat: nan(&r.id_sat),
             };
             if with_map {
-                row.map = Some(MapData::of(&sol));
+                row.map = ev.solution.as_ref().map(MapData::of);
             }
         }
         Err(e) => row.status = format!("failed: {e}"),
