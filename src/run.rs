@@ -122,7 +122,7 @@ impl<'a> DeviceSolver<'a> {
         let p = &self.structure.problem;
         let mut t = quasi_fermi(p, psi, sign, vds, mu);
         let mut last = (f64::INFINITY, f64::INFINITY, f64::INFINITY);
-        let mut refactor = true;
+        let mut refactor = false; // reuse the last factorisation while it contracts
         let mut accel = Anderson::new(ANDERSON_DEPTH);
         let mut before = psi.to_vec();
         for step in 1..=self.opts.max_steps {
