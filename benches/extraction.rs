@@ -34,9 +34,10 @@ fn bench(c: &mut Criterion) {
     });
     let mut g = c.benchmark_group("extraction");
     g.sample_size(10);
-    g.bench_function("full_extraction (double-gate demo, 2 x 51 bias points)", |b| {
-        b.iter(|| run_device(&s, &Silent).expect("run").report.vt_lin_v)
-    });
+    g.bench_function(
+        "full_extraction (double-gate demo, 2 x 51 bias points)",
+        |b| b.iter(|| run_device(&s, &Silent).expect("run").report.vt_lin_v),
+    );
     g.finish();
 }
 

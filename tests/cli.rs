@@ -19,14 +19,37 @@ fn run_json_has_the_contract_keys_and_curves_csv_matches() {
         .arg(&csv)
         .output()
         .unwrap();
-    assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
     let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
     // DEVICE-FORMAT / issue contract: these keys, these names.
     for key in [
-        "name", "architecture", "polarity", "gate_length_nm", "l_met_nm", "vt_lin_V", "vt_sat_V",
-        "ss_lin_mV_per_dec", "ss_sat_mV_per_dec", "dibl_mV_per_V", "vt_long_V", "vt_rolloff_mV",
-        "barrier_lin_eV", "barrier_sat_eV", "barrier_lowering_meV", "leakiest_depth_nm",
-        "natural_length_nm", "converged", "nodes", "newton_steps_total", "vgs_V", "id_lin", "id_sat",
+        "name",
+        "architecture",
+        "polarity",
+        "gate_length_nm",
+        "l_met_nm",
+        "vt_lin_V",
+        "vt_sat_V",
+        "ss_lin_mV_per_dec",
+        "ss_sat_mV_per_dec",
+        "dibl_mV_per_V",
+        "vt_long_V",
+        "vt_rolloff_mV",
+        "barrier_lin_eV",
+        "barrier_sat_eV",
+        "barrier_lowering_meV",
+        "leakiest_depth_nm",
+        "natural_length_nm",
+        "converged",
+        "nodes",
+        "newton_steps_total",
+        "vgs_V",
+        "id_lin",
+        "id_sat",
         "current_unit",
     ] {
         assert!(v.get(key).is_some(), "missing key {key}");
@@ -53,11 +76,26 @@ fn bad_device_files_fail_with_named_errors_and_no_panic() {
     let dir = tempfile::tempdir().unwrap();
     let base = std::fs::read_to_string(mesh("double-gate.toml")).unwrap();
     let cases = [
-        (base.replace("gate_length_nm", "gate_lenght_nm"), "geometry.gate_length_nm"),
-        (base.replace("thickness_nm = 0.6", "thickness_nm = -0.6"), "gate_stack.0.thickness_nm"),
-        (base.replace("vgs_stop_V = 0.8", "vgs_stop_V = -0.5"), "bias.vgs_stop_V"),
-        (base.replace("channel_cm3 = 1e15", "channel_cm3 = 1e25"), "doping.channel_cm3"),
-        (base.replace("\"double-gate\"", "\"double-gat\""), "double-gate"),
+        (
+            base.replace("gate_length_nm", "gate_lenght_nm"),
+            "geometry.gate_length_nm",
+        ),
+        (
+            base.replace("thickness_nm = 0.6", "thickness_nm = -0.6"),
+            "gate_stack.0.thickness_nm",
+        ),
+        (
+            base.replace("vgs_stop_V = 0.8", "vgs_stop_V = -0.5"),
+            "bias.vgs_stop_V",
+        ),
+        (
+            base.replace("channel_cm3 = 1e15", "channel_cm3 = 1e25"),
+            "doping.channel_cm3",
+        ),
+        (
+            base.replace("\"double-gate\"", "\"double-gat\""),
+            "double-gate",
+        ),
         ("name = \"x\"\n[geometry\n".to_string(), "TOML"),
     ];
     for (i, (text, needle)) in cases.iter().enumerate() {
@@ -69,7 +107,10 @@ fn bad_device_files_fail_with_named_errors_and_no_panic() {
         assert!(err.contains(needle), "case {i}: {err}");
         assert!(!err.contains("panicked"), "case {i}: {err}");
     }
-    let out = gatehold().args(["run", "/nonexistent/device.toml"]).output().unwrap();
+    let out = gatehold()
+        .args(["run", "/nonexistent/device.toml"])
+        .output()
+        .unwrap();
     assert_eq!(out.status.code(), Some(1));
     assert!(String::from_utf8_lossy(&out.stderr).contains("/nonexistent/device.toml"));
 }
@@ -77,7 +118,14 @@ fn bad_device_files_fail_with_named_errors_and_no_panic() {
 #[test]
 fn templates_parse_and_lambda_json_has_the_contract_keys() {
     let dir = tempfile::tempdir().unwrap();
-    for arch in ["bulk", "thin-body", "double-gate", "tri-gate", "gate-all-around", "capped-fin"] {
+    for arch in [
+        "bulk",
+        "thin-body",
+        "double-gate",
+        "tri-gate",
+        "gate-all-around",
+        "capped-fin",
+    ] {
         let out = gatehold().args(["template", arch]).output().unwrap();
         assert!(out.status.success());
         let text = String::from_utf8(out.stdout).unwrap();
@@ -85,14 +133,30 @@ fn templates_parse_and_lambda_json_has_the_contract_keys() {
         if arch == "thin-body" {
             let p = dir.path().join("tb.toml");
             std::fs::write(&p, &text).unwrap();
-            let out = gatehold().arg("lambda").arg(&p).arg("--json").output().unwrap();
-            assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
+            let out = gatehold()
+                .arg("lambda")
+                .arg(&p)
+                .arg("--json")
+                .output()
+                .unwrap();
+            assert!(
+                out.status.success(),
+                "{}",
+                String::from_utf8_lossy(&out.stderr)
+            );
             let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
-            for key in ["lambda_numeric_nm", "lambda_dielectric_path_nm", "lambda_closed_forms", "lg_over_lambda"] {
+            for key in [
+                "lambda_numeric_nm",
+                "lambda_dielectric_path_nm",
+                "lambda_closed_forms",
+                "lg_over_lambda",
+            ] {
                 assert!(v.get(key).is_some(), "missing {key}");
             }
             let num = v["lambda_numeric_nm"].as_f64().unwrap();
-            let yan = v["lambda_closed_forms"]["yan-1992-single-gate"].as_f64().unwrap();
+            let yan = v["lambda_closed_forms"]["yan-1992-single-gate"]
+                .as_f64()
+                .unwrap();
             // A thin body on a buried oxide: the numeric lambda sees the oxide path, the closed form does not.
             assert!(num > yan, "{num} vs {yan}");
             assert!((v["lg_over_lambda"].as_f64().unwrap() - 25.0 / num).abs() < 1e-9);

@@ -200,9 +200,9 @@ max_step_nm = 1.0
         ),
         ("dibl", n.dibl_mv_per_v.unwrap(), p.dibl_mv_per_v.unwrap()),
         (
-            "barrier_lowering",
-            n.barrier_lowering_mev.unwrap(),
-            p.barrier_lowering_mev.unwrap(),
+            "barrier_lowering_eV", // in eV, like the potentials
+            1e-3 * n.barrier_lowering_mev.unwrap(),
+            1e-3 * p.barrier_lowering_mev.unwrap(),
         ),
     ];
     for (name, a, b) in pairs {

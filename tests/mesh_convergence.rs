@@ -7,7 +7,9 @@ use gatehold::device::load_device;
 use gatehold::run::{run_device, Silent};
 
 fn check(file: &str) {
-    let path = std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("meshes").join(file);
+    let path = std::path::Path::new(env!("CARGO_MANIFEST_DIR"))
+        .join("meshes")
+        .join(file);
     let mut s = load_device(&path).unwrap();
     s.bias.vgs_start_v = -0.3;
     s.bias.vgs_stop_v = 0.45;
@@ -16,8 +18,17 @@ fn check(file: &str) {
     for r in [1.0, 2.0] {
         s.mesh.refinement = r;
         let rep = run_device(&s, &Silent).unwrap().report;
-        assert!(rep.problems.is_empty(), "{file} refinement {r}: {:?}", rep.problems);
-        got.push((rep.vt_lin_v.unwrap(), rep.vt_sat_v.unwrap(), rep.dibl_mv_per_v.unwrap(), rep.unknowns));
+        assert!(
+            rep.problems.is_empty(),
+            "{file} refinement {r}: {:?}",
+            rep.problems
+        );
+        got.push((
+            rep.vt_lin_v.unwrap(),
+            rep.vt_sat_v.unwrap(),
+            rep.dibl_mv_per_v.unwrap(),
+            rep.unknowns,
+        ));
     }
     let (d, f) = (got[0], got[1]);
     let dvl = 1e3 * (d.0 - f.0);
@@ -29,7 +40,11 @@ fn check(file: &str) {
     );
     assert!(dvl.abs() < 0.5, "{file}: V_t,lin differs by {dvl} mV");
     assert!(dvs.abs() < 0.5, "{file}: V_t,sat differs by {dvs} mV");
-    assert!(ddibl.abs() < 0.02, "{file}: DIBL differs by {} %", 100.0 * ddibl);
+    assert!(
+        ddibl.abs() < 0.02,
+        "{file}: DIBL differs by {} %",
+        100.0 * ddibl
+    );
 }
 
 #[test]

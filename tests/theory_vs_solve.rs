@@ -20,7 +20,10 @@ fn high_k_at_equal_eot_loses_more_control() {
     hik.stack[0].thickness_nm = 5.64;
     hik.stack[0].material = "eps=22".into();
     assert!((sio2.eot_nm() - hik.eot_nm()).abs() < 1e-3);
-    let (a, b) = rayon::join(|| run_device(&sio2, &Silent).unwrap().report, || run_device(&hik, &Silent).unwrap().report);
+    let (a, b) = rayon::join(
+        || run_device(&sio2, &Silent).unwrap().report,
+        || run_device(&hik, &Silent).unwrap().report,
+    );
     let (la, lb) = (lambda_report(&sio2).unwrap(), lambda_report(&hik).unwrap());
     let (da, db) = (a.dibl_mv_per_v.unwrap(), b.dibl_mv_per_v.unwrap());
     println!(
@@ -48,7 +51,12 @@ fn fitted_lambda_from_double_gate_solves_matches_the_numeric_lambda() {
     // closely. The constant-current DIBL fit reads long: besides the barrier
     // term it holds a slowly decaying part (the drain shortens the low-density
     // stretch that sets the subthreshold current, about 1/L), reported on the issue.
-    let s = double_gate(25.0, 8.0, 1.0, "[bias]\nvgs_start_V = -0.4\nvgs_stop_V = 0.5\nvgs_step_V = 0.025\n");
+    let s = double_gate(
+        25.0,
+        8.0,
+        1.0,
+        "[bias]\nvgs_start_V = -0.4\nvgs_stop_V = 0.5\nvgs_step_V = 0.025\n",
+    );
     let r = scan(&s, &[20.0, 25.0, 30.0, 35.0, 40.0], &Silent).unwrap();
     let num = r.lambda_numeric_nm;
     let fb = r.lambda_fitted_barrier.unwrap();
@@ -57,8 +65,16 @@ fn fitted_lambda_from_double_gate_solves_matches_the_numeric_lambda() {
         "lambda numeric {num:.3} nm; fitted to barrier lowering {:.3} nm (R^2 {:.5}); fitted to DIBL {:.3} nm (R^2 {:.4})",
         fb.lambda_nm, fb.r_squared, fd.lambda_nm, fd.r_squared
     );
-    assert!(rel(fb.lambda_nm, num) < 0.2, "barrier fit {} vs numeric {num}", fb.lambda_nm);
-    assert!(rel(fb.lambda_nm, num) < 0.05, "barrier fit {} vs numeric {num} (measured within 2 %)", fb.lambda_nm);
+    assert!(
+        rel(fb.lambda_nm, num) < 0.2,
+        "barrier fit {} vs numeric {num}",
+        fb.lambda_nm
+    );
+    assert!(
+        rel(fb.lambda_nm, num) < 0.05,
+        "barrier fit {} vs numeric {num} (measured within 2 %)",
+        fb.lambda_nm
+    );
     assert!(fb.r_squared > 0.999);
     // The DIBL fit is longer than the numeric lambda, for the reason above.
     assert!(fd.lambda_nm > num);
