@@ -110,10 +110,8 @@ impl Problem {
                 for (dx, dy) in [(-1isize, -1isize), (0, -1), (-1, 0), (0, 0)] {
                     let (cx, cy) = (i as isize + dx, j as isize + dy);
                     match cell(cx, cy) {
-                        Some(CellKind::Metal(e)) => {
-                            if !matches!(nodes[k], NodeKind::Electrode(_)) {
-                                nodes[k] = NodeKind::Electrode(e);
-                            }
+                        Some(CellKind::Metal(e)) if !matches!(nodes[k], NodeKind::Electrode(_)) => {
+                            nodes[k] = NodeKind::Electrode(e);
                         }
                         Some(CellKind::Semi) => {
                             touches_semi = true;

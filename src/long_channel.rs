@@ -13,7 +13,8 @@ use crate::solve::{
 };
 use crate::structure::{long_channel_column, BACK_PLANE, GATE};
 
-/// Gauss-Legendre nodes and weights on [-1, 1], 8 points.
+/// Gauss-Legendre nodes and weights on [-1, 1], 8 points (digits as tabulated).
+#[allow(clippy::excessive_precision)]
 const GL8: [(f64, f64); 8] = [
     (-0.960_289_856_497_536_3, 0.101_228_536_290_376_26),
     (-0.796_666_477_413_626_7, 0.222_381_034_453_374_47),
@@ -85,11 +86,9 @@ impl Column {
     pub fn sheet_density(&mut self, vgs: f64, v: f64) -> Result<f64, LongChannelError> {
         let p = &self.problem;
         let si = p.silicon;
-        let electrodes = [
-            si.electrode_potential(vgs, self.wf),
-            si.electrode_potential(self.back_bias, self.back_wf),
-        ];
-        debug_assert!(GATE == 0 && BACK_PLANE == 1);
+        let mut electrodes = [0.0; 2];
+        electrodes[GATE] = si.electrode_potential(vgs, self.wf);
+        electrodes[BACK_PLANE] = si.electrode_potential(self.back_bias, self.back_wf);
         apply_boundaries(p, &mut self.psi, &electrodes, &[0.0, 0.0, 0.0]);
         let qf = if self.sign > 0.0 {
             QuasiFermi::uniform(p.nx, v, 0.0)

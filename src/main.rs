@@ -91,7 +91,7 @@ impl Observer for Dots {
                 .fetch_add(1, std::sync::atomic::Ordering::Relaxed)
                 + 1;
             eprint!("{}", if converged { "." } else { "x" });
-            if n % 60 == 0 {
+            if n.is_multiple_of(60) {
                 eprintln!();
             }
         }

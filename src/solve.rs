@@ -494,8 +494,9 @@ fn solve_dense(mut a: Vec<Vec<f64>>) -> Option<Vec<f64>> {
         a.swap(c, p);
         for r in c + 1..m {
             let f = a[r][c] / a[c][c];
-            for k in c..=m {
-                a[r][k] -= f * a[c][k];
+            let pivot_row = a[c].clone();
+            for (v, pv) in a[r][c..].iter_mut().zip(&pivot_row[c..]) {
+                *v -= f * pv;
             }
         }
     }

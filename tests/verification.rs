@@ -232,7 +232,7 @@ fn manufactured_error(n: usize) -> f64 {
         Line { nodes: ys },
         si,
         |x, y| {
-            if x < 0.0 || x > 1.0 || y < 0.0 {
+            if !(0.0..=1.0).contains(&x) || y < 0.0 {
                 CellKind::Metal(0)
             } else if y < y0 {
                 CellKind::Semi

@@ -126,8 +126,8 @@ fn edit_distance(a: &str, b: &str) -> usize {
     for (i, row) in d.iter_mut().enumerate() {
         row[0] = i;
     }
-    for j in 0..=b.len() {
-        d[0][j] = j;
+    for (j, v) in d[0].iter_mut().enumerate() {
+        *v = j;
     }
     for i in 1..=a.len() {
         for j in 1..=b.len() {
@@ -438,11 +438,11 @@ pub fn scenario_from_table(root: &toml::Table) -> Result<Scenario, DeviceError> 
         });
     }
     let mut stack = Vec::new();
-    for i in 0..layers.len() {
+    for (i, layer) in layers.iter().enumerate() {
         let mk = format!("gate_stack.{i}.material");
         let ek = format!("gate_stack.{i}.relative_permittivity");
         let tk = format!("gate_stack.{i}.thickness_nm");
-        let t = layers[i].as_table().expect("checked above");
+        let t = layer.as_table().expect("checked above");
         let get_num = |k: &str, full: &str| -> Result<Option<f64>, DeviceError> {
             match t.get(k) {
                 None => Ok(None),
