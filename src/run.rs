@@ -25,6 +25,8 @@ calibrated device simulation and measured silicon.";
 pub const QF_TOL_V: f64 = 1e-7;
 /// History kept by the Anderson acceleration of the potential/quasi-Fermi coupling.
 const ANDERSON_DEPTH: usize = 5;
+/// A factorisation from an earlier bias point is renewed after this many steps.
+const STALE_AFTER_STEPS: usize = 99;
 /// Above this update (V) the next step refactorises the Jacobian.
 const REFACTOR_ABOVE_V: f64 = 1e-2;
 /// Largest drain-bias step while ramping, V.
@@ -123,6 +125,7 @@ impl<'a> DeviceSolver<'a> {
         let mut t = quasi_fermi(p, psi, sign, vds, mu);
         let mut last = (f64::INFINITY, f64::INFINITY, f64::INFINITY);
         let mut refactor = false; // reuse the last factorisation while it contracts
+        let mut fresh = false; // refactorised during this bias point
         let mut accel = Anderson::new(ANDERSON_DEPTH);
         let mut before = psi.to_vec();
         for step in 1..=self.opts.max_steps {
@@ -138,7 +141,10 @@ impl<'a> DeviceSolver<'a> {
             // iteration stops contracting; near the solution the slow part is
             // the quasi-Fermi coupling, which a fresh Jacobian does not speed
             // up (Anderson mixing does).
-            refactor = st.max_update_v > REFACTOR_ABOVE_V || st.max_update_v > 1.5 * last.0;
+            fresh |= refactor;
+            refactor = st.max_update_v > REFACTOR_ABOVE_V
+                || st.max_update_v > 1.5 * last.0
+                || (!fresh && step >= STALE_AFTER_STEPS);
             let t_new = quasi_fermi(p, psi, sign, vds, mu);
             let dphi = t_new
                 .phi
