@@ -55,7 +55,9 @@ pub const SUMMARY_FILE: &str = "summary.txt";
 /// function eV, first gate voltage V). Bulk: a doped body under an n+-poly-like
 /// gate; the others: undoped bodies under near-midgap metal. The first gate
 /// voltage reaches far enough toward off for the SS window at the shortest length.
-const VARIANTS: [(&str, f64, &str, f64, f64); 4] = [
+type Variant = (&'static str, f64, &'static str, f64, f64);
+
+const VARIANTS: [Variant; 4] = [
     ("bulk", 8.0, "3e18", 4.17, -1.4),
     ("thin-body", 6.0, "1e15", 4.50, -0.8),
     ("double-gate", 8.0, "1e15", 4.55, -0.5),
@@ -208,8 +210,7 @@ fn toml_list<T: std::fmt::Display>(v: impl Iterator<Item = T>) -> String {
 /// length `k / 4`, architecture `k % 4`.
 pub fn plan_text(o: &DemoOptions) -> Result<String, DemoError> {
     o.validate()?;
-    let col =
-        |f: &dyn Fn(&(&str, f64, &str, f64, f64)) -> String| toml_list(VARIANTS.iter().map(f));
+    let col = |f: &dyn Fn(&Variant) -> String| toml_list(VARIANTS.iter().map(f));
     Ok(format!(
         "# gatehold demo: the invented \"ridge-7\" node built four ways, over gate length.\n\
          {BASE_DEVICE}\n\

@@ -87,11 +87,11 @@ fn natural_lengths_rank_the_stacks() {
         ["double-gate", "double-gate", "thin-body", "tri-gate"]
     );
     let last3 = |k: usize| (rows[k].1[1], rows[k].1[2], rows[k].1[3]);
-    for k in 0..4 {
+    for (k, row) in rows.iter().enumerate() {
         let (eot, lam, ratio) = last3(k);
         println!(
             "{}: EOT {eot} nm, lambda {lam} nm, L_g/lambda {ratio}",
-            rows[k].0
+            row.0
         );
         assert!((0.9..1.01).contains(&eot));
         assert!((2.0..12.0).contains(&lam));
