@@ -19,6 +19,7 @@
 //! | bias sweeps and the whole device | [`run`] | [`run::run_device`] |
 //! | V_t, SS, DIBL, barriers | [`extract`] | [`extract::threshold`] |
 //! | closed forms, natural length | [`theory`] | [`theory::closed_form`] |
+//! | the built-in demonstration | [`demo`] | [`demo::run_demo`] |
 //!
 //! Limitations: classical (Boltzmann) carriers, no quantum confinement, no
 //! velocity saturation, constant mobility, a quasi-Fermi level uniform over
@@ -26,6 +27,7 @@
 //! they are not sign-off figures.
 
 pub mod crosssection;
+pub mod demo;
 pub mod device;
 pub mod discretize;
 pub mod extract;

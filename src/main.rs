@@ -8,6 +8,7 @@ use std::process::ExitCode;
 use anyhow::{Context, Result};
 use clap::{Parser, Subcommand};
 
+mod cli_demo;
 mod cli_sweep;
 use gatehold::device::{load_device, template, Architecture};
 use gatehold::run::{evaluate, Observer, Silent};
@@ -70,6 +71,8 @@ enum Command {
     Merge(cli_sweep::MergeArgs),
     /// Plots from a sweep file: roll-off, DIBL and SS against L_g, I_D-V_G, maps.
     Plot(cli_sweep::PlotArgs),
+    /// Built-in demonstration: an invented node built four ways, swept over gate length, with plots.
+    Demo(cli_demo::DemoArgs),
     /// Print a commented device file to start from.
     Template {
         /// bulk | thin-body | double-gate | tri-gate | gate-all-around | capped-fin
@@ -191,6 +194,7 @@ fn run(cli: Cli) -> Result<u8> {
         }),
         Command::Merge(a) => Ok(if cli_sweep::merge(&a)? == 0 { 0 } else { 2 }),
         Command::Plot(a) => Ok(cli_sweep::plot(&a)? as u8),
+        Command::Demo(a) => Ok(if cli_demo::demo(&a)? == 0 { 0 } else { 2 }),
         Command::Template { architecture } => {
             let arch = Architecture::from_name(&architecture).with_context(|| {
                 format!(

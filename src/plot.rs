@@ -555,6 +555,73 @@ fn per_point(
     Ok(out)
 }
 
+/// The series label of each row of a sweep file in the figures against L_g:
+/// the values of every axis other than `geometry.gate_length_nm` ("solved"
+/// when there is none). When one text axis alone tells the series apart (e.g.
+/// `architecture` zipped with the doping and work function that go with it),
+/// that axis' value is the whole label. Theory series named with these labels
+/// take the colour of the solved series.
+pub fn series_labels(f: &SweepFile) -> Vec<String> {
+    let others: Vec<usize> = f
+        .axes
+        .iter()
+        .enumerate()
+        .filter(|(_, a)| a.key != "geometry.gate_length_nm")
+        .map(|(k, _)| k)
+        .collect();
+    if others.is_empty() {
+        return vec!["solved".into(); f.rows.len()];
+    }
+    let full: Vec<String> = f
+        .rows
+        .iter()
+        .map(|r| {
+            others
+                .iter()
+                .map(|&a| {
+                    let key = f.axes[a].key.rsplit('.').next().unwrap_or("");
+                    match &r.axis[a] {
+                        AxisValue::Text(s) => s.clone(),
+                        AxisValue::Number(x) => format!("{key}={x}"),
+                    }
+                })
+                .collect::<Vec<_>>()
+                .join(", ")
+        })
+        .collect();
+    // A text axis that maps one-to-one onto the full labels names the series alone.
+    let text_of = |k: usize, a: usize| match &f.rows[k].axis[a] {
+        AxisValue::Text(s) => Some(s.clone()),
+        AxisValue::Number(_) => None,
+    };
+    let one_to_one = |a: usize| {
+        let mut pairs = std::collections::BTreeMap::new();
+        let mut back = std::collections::BTreeMap::new();
+        for (k, l) in full.iter().enumerate() {
+            let Some(t) = text_of(k, a) else {
+                return false;
+            };
+            if pairs.insert(t.clone(), l).is_some_and(|p| p != l)
+                || back.insert(l, t.clone()).is_some_and(|b| b != t)
+            {
+                return false;
+            }
+        }
+        true
+    };
+    if others.len() > 1 {
+        if let Some(&a) = others
+            .iter()
+            .find(|&&a| !f.axes[a].numeric && one_to_one(a))
+        {
+            return (0..f.rows.len())
+                .map(|k| text_of(k, a).unwrap_or_default())
+                .collect();
+        }
+    }
+    full
+}
+
 /// Every figure a sweep file supports, into `dir`: `vt_rolloff`, `dibl`, `ss`
 /// against L_g (one series per combination of the other axes, theory beside
 /// them when given), and for each point holding a map (or the first ok point)
@@ -563,29 +630,8 @@ pub fn sweep_plots(f: &SweepFile, dir: &Path, theory: &Theory) -> Result<Vec<Pat
     let lg = f
         .figure("gate_length_nm")
         .ok_or_else(|| PlotError::Empty("no gate_length_nm column".into()))?;
-    let others: Vec<usize> = f
-        .axes
-        .iter()
-        .enumerate()
-        .filter(|(_, a)| a.key != "geometry.gate_length_nm")
-        .map(|(k, _)| k)
-        .collect();
-    let label = |k: usize| -> String {
-        if others.is_empty() {
-            return "solved".into();
-        }
-        others
-            .iter()
-            .map(|&a| {
-                let key = f.axes[a].key.rsplit('.').next().unwrap_or("");
-                match &f.rows[k].axis[a] {
-                    AxisValue::Text(s) => s.clone(),
-                    AxisValue::Number(x) => format!("{key}={x}"),
-                }
-            })
-            .collect::<Vec<_>>()
-            .join(", ")
-    };
+    let labels = series_labels(f);
+    let label = |k: usize| labels[k].clone();
     let series_of = |name: &str| -> Vec<Series> {
         let vals = f.figure(name).unwrap_or_default();
         let mut out: Vec<Series> = Vec::new();

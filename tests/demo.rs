@@ -1,0 +1,144 @@
+//! `gatehold demo`: the library demo on a reduced set of lengths (the full
+//! demo takes ~30-50 s on two cores, too long beside the other tests), and
+//! the binary's handling of a bad option.
+
+use gatehold::demo::{run_demo, shortest_compliant, DemoOptions, SUMMARY_FILE};
+use gatehold::io::hdf5::read_sweep;
+use gatehold::io::AxisValue;
+use gatehold::sweep::Quiet;
+
+const ARCHS: [&str; 4] = ["bulk", "thin-body", "double-gate", "tri-gate"];
+
+#[test]
+fn reduced_demo_file_summary_and_plots_agree() {
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().join("demo");
+    let lengths = vec![18.0, 26.0, 45.0];
+    let o = DemoOptions {
+        lengths_nm: lengths.clone(),
+        jobs: 2,
+        ..DemoOptions::default()
+    };
+    let r = run_demo(&out, &o, &Quiet).unwrap();
+
+    // The file: one row per point, plan order (length-major), every status ok.
+    let f = read_sweep(&out.join("sweep.h5")).unwrap();
+    assert_eq!(f.rows.len(), 12);
+    assert!(f.is_complete());
+    let arch_col = f.axes.iter().position(|a| a.key == "architecture").unwrap();
+    let lg = f.figure("gate_length_nm").unwrap();
+    for (k, row) in f.rows.iter().enumerate() {
+        assert_eq!(row.index, k);
+        assert_eq!(row.status, "ok", "point {k}: {}", row.status);
+        assert_eq!(row.axis[arch_col], AxisValue::Text(ARCHS[k % 4].into()));
+        assert_eq!(lg[k], lengths[k / 4]);
+    }
+    assert_eq!(r.failed_points, 0);
+
+    // Shortest compliant length recomputed here from the file's figures.
+    let dibl = f.figure("dibl_mV_per_V").unwrap();
+    let ss_lin = f.figure("ss_lin_mV_per_dec").unwrap();
+    let ss_sat = f.figure("ss_sat_mV_per_dec").unwrap();
+    let lam = f.figure("lambda_numeric_nm").unwrap();
+    let summary = std::fs::read_to_string(out.join(SUMMARY_FILE)).unwrap();
+    for (a, arch) in ARCHS.iter().enumerate() {
+        let rows: Vec<usize> = (a..12).step_by(4).collect();
+        let mine = rows
+            .iter()
+            .copied()
+            .filter(|&k| dibl[k] <= 100.0 && ss_lin[k].max(ss_sat[k]) <= 80.0)
+            .min_by(|&i, &j| lg[i].total_cmp(&lg[j]));
+        let res = &r.architectures[a];
+        assert_eq!(res.architecture, *arch);
+        let got = res.shortest_compliant.as_ref().map(|c| c.gate_length_nm);
+        println!("{arch}: expected {:?}, got {got:?}", mine.map(|k| lg[k]));
+        assert_eq!(got, mine.map(|k| lg[k]), "{arch}");
+        assert_eq!(
+            shortest_compliant(&f, arch, 100.0, 80.0),
+            res.shortest_compliant
+        );
+        if let (Some(c), Some(k)) = (&res.shortest_compliant, mine) {
+            assert_eq!(c.lambda_numeric_nm, lam[k]);
+            assert!((c.lg_over_lambda - lg[k] / lam[k]).abs() < 1e-12);
+        }
+        // Natural lengths in a physical range for these stacks and bodies.
+        assert!(
+            (2.0..12.0).contains(&res.lambda_numeric_nm),
+            "{arch}: lambda {}",
+            res.lambda_numeric_nm
+        );
+        // DIBL falls with L (2D solve and theory alike) and SS stays above the 60 mV/dec limit.
+        for w in rows.windows(2) {
+            assert!(
+                dibl[w[1]] < dibl[w[0]],
+                "{arch}: DIBL {} at {} nm, {} at {} nm",
+                dibl[w[0]],
+                lg[w[0]],
+                dibl[w[1]],
+                lg[w[1]]
+            );
+        }
+        for &k in &rows {
+            assert!(
+                ss_sat[k] > 59.0 && ss_sat[k] < 200.0,
+                "{arch}: SS {}",
+                ss_sat[k]
+            );
+        }
+        // Theory at every swept length (the model holds there), falling with L.
+        assert_eq!(res.theory.len(), 3, "{arch}");
+        assert!(res.theory[0].dibl_mv_per_v > res.theory[2].dibl_mv_per_v);
+        // The summary names the outcome of each architecture.
+        let line = summary
+            .lines()
+            .find(|l| l.trim_start().starts_with(arch))
+            .unwrap_or_else(|| panic!("{arch} missing from summary:\n{summary}"));
+        match &res.shortest_compliant {
+            Some(c) => assert!(line.contains(&format!("{:.1}", c.gate_length_nm)), "{line}"),
+            None => assert!(line.contains("none in the range"), "{line}"),
+        }
+    }
+    // The double gate holds the targets at a shorter or equal length than bulk.
+    let short = |a: usize| {
+        r.architectures[a]
+            .shortest_compliant
+            .as_ref()
+            .map_or(f64::INFINITY, |c| c.gate_length_nm)
+    };
+    assert!(short(2) <= short(0));
+    assert!(summary.contains("not standards"));
+    assert!(summary.contains("Caution: Screening-level"));
+
+    // Plots: every figure against L_g plus the mapped point, non-empty PNG and SVG.
+    for stem in ["dibl", "ss", "vt_rolloff", "point_000002_potential_map"] {
+        let png = std::fs::read(out.join(format!("{stem}.png"))).unwrap();
+        assert!(
+            png.len() > 1000 && png.starts_with(b"\x89PNG"),
+            "{stem}.png"
+        );
+        let svg = std::fs::read_to_string(out.join(format!("{stem}.svg"))).unwrap();
+        assert!(svg.len() > 1000 && svg.contains("<svg"), "{stem}.svg");
+    }
+    assert!(r.plots.iter().all(|p| p.exists()));
+}
+
+#[test]
+fn binary_rejects_a_bad_target_naming_it() {
+    let dir = tempfile::tempdir().unwrap();
+    let out = std::process::Command::new(env!("CARGO_BIN_EXE_gatehold"))
+        .args(["demo", "--quiet", "--dibl-max=-5", "--out"])
+        .arg(dir.path().join("d"))
+        .output()
+        .unwrap();
+    let err = String::from_utf8_lossy(&out.stderr);
+    println!("stderr: {err}");
+    assert_eq!(out.status.code(), Some(1));
+    assert!(
+        err.contains("dibl-max") && err.contains("-5") && err.contains("> 0"),
+        "{err}"
+    );
+    assert!(
+        !dir.path().join("d").exists(),
+        "nothing is written for a bad option"
+    );
+}
