@@ -280,6 +280,8 @@ pub struct FinPrediction {
     pub roll_off_sat_v: f64,
     pub dibl_mv_per_v: f64,
     pub ss_mv_per_dec: f64,
+    /// Newton steps of the cross-section solve (solved once per cross-section in a process;
+    /// other gate lengths of the same cross-section reuse it).
     pub newton_steps: usize,
     pub cross_section_nodes: usize,
 }
@@ -293,6 +295,99 @@ pub fn predict_fin(s: &Scenario) -> Result<FinPrediction, TheoryError> {
             architecture: s.architecture,
         });
     }
+    let f = fin_long_channel(s)?;
+    let sign = s.polarity.sign();
+    let lg = s.geometry.gate_length_nm;
+    let lambda = f.lambda_nm;
+    let est = estimate(
+        lg,
+        lambda,
+        f.barrier_v,
+        s.bias.vds_lin_v,
+        s.bias.vds_sat_v,
+        f.ss_long_mv_per_dec,
+        sign,
+    )?;
+    Ok(FinPrediction {
+        name: s.name.clone(),
+        architecture: s.architecture.name().into(),
+        kind: "theory: Liu et al. 1993 quasi-2D model with the numeric body natural length".into(),
+        width_nm: f.width_nm,
+        width_definition: WIDTH_DEFINITION.into(),
+        gate_length_nm: lg,
+        lambda_nm: lambda,
+        body_mode_silicon_fraction: f.silicon_fraction,
+        lambda_dielectric_path_nm: f.dielectric_path_nm,
+        dielectric_path_region: f.dielectric_path_region.clone(),
+        lg_over_lambda: lg / lambda,
+        verdict: Verdict::of(lg / lambda),
+        vt_long_v: f.vt_long_v,
+        ss_long_mv_per_dec: f.ss_long_mv_per_dec,
+        corner_to_top_centre_ratio: f.corner_to_top,
+        corner_to_side_centre_ratio: f.corner_to_side,
+        channel_potential_at_threshold_v: f.phi_s_v,
+        source_drain_potential_v: f.vbi_v,
+        barrier_v: f.barrier_v,
+        vt_lin_v: f.vt_long_v + est.roll_off_lin_v,
+        vt_sat_v: f.vt_long_v + est.roll_off_sat_v,
+        roll_off_lin_v: est.roll_off_lin_v,
+        roll_off_sat_v: est.roll_off_sat_v,
+        dibl_mv_per_v: est.dibl_mv_per_v,
+        ss_mv_per_dec: est.ss_mv_per_dec,
+        newton_steps: f.newton_steps,
+        cross_section_nodes: f.nodes,
+    })
+}
+
+/// The gate-length-independent part of a fin prediction: the cross-section's
+/// natural length, long-channel V_t and SS (the Pao-Sah criterion I_cc W/L
+/// makes V_t,long independent of L), corner inversion and the barrier.
+#[derive(Debug, Clone, PartialEq)]
+struct FinLongChannel {
+    lambda_nm: f64,
+    silicon_fraction: f64,
+    dielectric_path_nm: Option<f64>,
+    dielectric_path_region: Option<String>,
+    vt_long_v: f64,
+    ss_long_mv_per_dec: f64,
+    corner_to_top: f64,
+    corner_to_side: f64,
+    phi_s_v: f64,
+    vbi_v: f64,
+    barrier_v: f64,
+    width_nm: f64,
+    newton_steps: usize,
+    nodes: usize,
+}
+
+/// Cross-section results already computed in this process, keyed by the
+/// scenario with its name and gate length blanked (a sweep over L solves the
+/// cross-section once). Bounded: cleared when it holds this many.
+const FIN_CACHE_SIZE: usize = 256;
+
+fn fin_long_channel(s: &Scenario) -> Result<std::sync::Arc<FinLongChannel>, TheoryError> {
+    use std::collections::HashMap;
+    use std::sync::{Arc, Mutex, OnceLock};
+    static CACHE: OnceLock<Mutex<HashMap<String, Arc<FinLongChannel>>>> = OnceLock::new();
+    let mut key_scenario = s.clone();
+    key_scenario.name.clear();
+    key_scenario.geometry.gate_length_nm = 0.0;
+    key_scenario.warnings.clear();
+    let key = serde_json::to_string(&key_scenario).expect("scenario serialises");
+    let cache = CACHE.get_or_init(|| Mutex::new(HashMap::new()));
+    if let Some(hit) = cache.lock().expect("fin cache").get(&key) {
+        return Ok(hit.clone());
+    }
+    let computed = Arc::new(compute_fin_long_channel(s)?);
+    let mut map = cache.lock().expect("fin cache");
+    if map.len() >= FIN_CACHE_SIZE {
+        map.clear();
+    }
+    map.insert(key, computed.clone());
+    Ok(computed)
+}
+
+fn compute_fin_long_channel(s: &Scenario) -> Result<FinLongChannel, TheoryError> {
     let mut fin = FinChannel::new(s)?;
     let sl = section_natural_lengths(&fin.section)?;
     let (lc, _) = extract_long_channel(&mut fin, s)?;
@@ -317,49 +412,24 @@ pub fn predict_fin(s: &Scenario) -> Result<FinPrediction, TheoryError> {
             reason: "no silicon nodes".into(),
         })?;
     let vbi = source_drain_potential_v(s);
-    let barrier = sign * (vbi - phi_s);
-    let lg = s.geometry.gate_length_nm;
-    let lambda = sl.body.lambda_nm;
-    let est = estimate(
-        lg,
-        lambda,
-        barrier,
-        s.bias.vds_lin_v,
-        s.bias.vds_sat_v,
-        lc.ss_mv_per_dec,
-        sign,
-    )?;
-    Ok(FinPrediction {
-        name: s.name.clone(),
-        architecture: s.architecture.name().into(),
-        kind: "theory: Liu et al. 1993 quasi-2D model with the numeric body natural length".into(),
-        width_nm: cs.width_nm,
-        width_definition: WIDTH_DEFINITION.into(),
-        gate_length_nm: lg,
-        lambda_nm: lambda,
-        body_mode_silicon_fraction: sl.body.silicon_fraction,
-        lambda_dielectric_path_nm: sl.dielectric_path.as_ref().map(|m| m.lambda_nm),
+    Ok(FinLongChannel {
+        lambda_nm: sl.body.lambda_nm,
+        silicon_fraction: sl.body.silicon_fraction,
+        dielectric_path_nm: sl.dielectric_path.as_ref().map(|m| m.lambda_nm),
         dielectric_path_region: sl
             .dielectric_path
             .as_ref()
             .map(|m| m.region.describe().into()),
-        lg_over_lambda: lg / lambda,
-        verdict: Verdict::of(lg / lambda),
         vt_long_v: lc.vt_v,
         ss_long_mv_per_dec: lc.ss_mv_per_dec,
-        corner_to_top_centre_ratio: n_corner / n_top,
-        corner_to_side_centre_ratio: n_corner / n_side,
-        channel_potential_at_threshold_v: phi_s,
-        source_drain_potential_v: vbi,
-        barrier_v: barrier,
-        vt_lin_v: lc.vt_v + est.roll_off_lin_v,
-        vt_sat_v: lc.vt_v + est.roll_off_sat_v,
-        roll_off_lin_v: est.roll_off_lin_v,
-        roll_off_sat_v: est.roll_off_sat_v,
-        dibl_mv_per_v: est.dibl_mv_per_v,
-        ss_mv_per_dec: est.ss_mv_per_dec,
+        corner_to_top: n_corner / n_top,
+        corner_to_side: n_corner / n_side,
+        phi_s_v: phi_s,
+        vbi_v: vbi,
+        barrier_v: sign * (vbi - phi_s),
+        width_nm: cs.width_nm,
         newton_steps: fin.steps,
-        cross_section_nodes: p.node_count(),
+        nodes: p.node_count(),
     })
 }
 
