@@ -26,7 +26,7 @@ pub const QF_TOL_V: f64 = 1e-7;
 /// History kept by the Anderson acceleration of the potential/quasi-Fermi coupling.
 const ANDERSON_DEPTH: usize = 5;
 /// A factorisation from an earlier bias point is renewed after this many steps.
-const STALE_AFTER_STEPS: usize = 99;
+const STALE_AFTER_STEPS: usize = 5;
 /// Above this update (V) the next step refactorises the Jacobian.
 const REFACTOR_ABOVE_V: f64 = 1e-2;
 /// Largest drain-bias step while ramping, V.
