@@ -34,12 +34,10 @@
 
 use crate::device::{Architecture, Scenario};
 use crate::discretize::{CellKind, Problem};
-use crate::long_channel::{LongChannelError, PaoSahDevice};
+use crate::long_channel::{solve_at_channel_level, GateBias, LongChannelError, PaoSahDevice};
 use crate::mesh::graded_line;
 use crate::physics::{Silicon, PER_CM3_TO_PER_NM3};
-use crate::solve::{
-    apply_boundaries, neutral_guess, NewtonOptions, PoissonSolver, QuasiFermi, SolveError,
-};
+use crate::solve::{neutral_guess, NewtonOptions, PoissonSolver, QuasiFermi, SolveError};
 pub use crate::structure::{BACK_PLANE, GATE};
 use crate::structure::{FINE_INTERFACE_NM, FINE_OTHER_NM};
 
@@ -298,21 +296,15 @@ impl FinChannel {
             si.electrode_potential(vgs, self.wf_ev),
             si.electrode_potential(self.back_bias_v, self.back_wf_ev),
         ];
-        apply_boundaries(p, &mut self.psi, &electrodes, &[]);
-        let qf = if self.sign > 0.0 {
-            QuasiFermi::uniform(p.nx, v, 0.0)
-        } else {
-            QuasiFermi::uniform(p.nx, 0.0, v)
+        let gate = GateBias {
+            vgs,
+            v,
+            sign: self.sign,
+            electrodes: &electrodes,
+            what: "fin cross-section",
         };
-        let rep = self.solver.solve(p, &mut self.psi, &qf, &self.opts)?;
-        self.steps += rep.steps;
-        if !rep.converged {
-            return Err(LongChannelError::NotConverged {
-                vgs_v: vgs,
-                v,
-                reason: format!("fin cross-section: {}", rep.reason),
-            });
-        }
+        self.steps +=
+            solve_at_channel_level(p, &mut self.solver, &mut self.psi, &gate, &self.opts)?;
         let s = self.sign;
         let vt = si.vt;
         let mut sum = 0.0;

@@ -41,6 +41,46 @@ pub struct Column {
     pub steps: usize,
 }
 
+/// A long-channel bias: gate voltage, the channel carrier's uniform quasi-Fermi level.
+pub(crate) struct GateBias<'a> {
+    pub vgs: f64,
+    pub v: f64,
+    /// +1 n-channel, -1 p-channel.
+    pub sign: f64,
+    /// Electrode potentials, V.
+    pub electrodes: &'a [f64],
+    /// What is being solved, for the error message.
+    pub what: &'static str,
+}
+
+/// Solves `p` with every contact at 0 V, the channel carrier's quasi-Fermi
+/// level uniform at `g.v` and the other carrier's at 0 V; returns the Newton
+/// steps. A solve that does not converge is an error, never a value.
+pub(crate) fn solve_at_channel_level(
+    p: &Problem,
+    solver: &mut PoissonSolver,
+    psi: &mut [f64],
+    g: &GateBias,
+    opts: &NewtonOptions,
+) -> Result<usize, LongChannelError> {
+    apply_boundaries(p, psi, g.electrodes, &[0.0; 3]);
+    let qf = if g.sign > 0.0 {
+        QuasiFermi::uniform(p.nx, g.v, 0.0)
+    } else {
+        QuasiFermi::uniform(p.nx, 0.0, g.v)
+    };
+    let rep = solver.solve(p, psi, &qf, opts)?;
+    if !rep.converged {
+        return Err(LongChannelError::NotConverged {
+            what: g.what,
+            vgs_v: g.vgs,
+            v: g.v,
+            reason: rep.reason,
+        });
+    }
+    Ok(rep.steps)
+}
+
 /// Long-channel figures.
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct LongChannel {
@@ -55,8 +95,13 @@ pub struct LongChannel {
 pub enum LongChannelError {
     #[error(transparent)]
     Solve(#[from] SolveError),
-    #[error("the 1D column did not converge at V_G = {vgs_v:.4} V, V = {v:.4} V: {reason}")]
-    NotConverged { vgs_v: f64, v: f64, reason: String },
+    #[error("the {what} did not converge at V_G = {vgs_v:.4} V, V = {v:.4} V: {reason}")]
+    NotConverged {
+        what: &'static str,
+        vgs_v: f64,
+        v: f64,
+        reason: String,
+    },
     #[error("the long-channel current does not reach the criterion within the gate sweep {0:.3} to {1:.3} V; widen bias.vgs_start_V/vgs_stop_V")]
     NotBracketed(f64, f64),
 }
@@ -89,21 +134,15 @@ impl Column {
         let mut electrodes = [0.0; 2];
         electrodes[GATE] = si.electrode_potential(vgs, self.wf);
         electrodes[BACK_PLANE] = si.electrode_potential(self.back_bias, self.back_wf);
-        apply_boundaries(p, &mut self.psi, &electrodes, &[0.0, 0.0, 0.0]);
-        let qf = if self.sign > 0.0 {
-            QuasiFermi::uniform(p.nx, v, 0.0)
-        } else {
-            QuasiFermi::uniform(p.nx, 0.0, v)
+        let gate = GateBias {
+            vgs,
+            v,
+            sign: self.sign,
+            electrodes: &electrodes,
+            what: "1D long-channel column",
         };
-        let rep = self.solver.solve(p, &mut self.psi, &qf, &self.opts)?;
-        self.steps += rep.steps;
-        if !rep.converged {
-            return Err(LongChannelError::NotConverged {
-                vgs_v: vgs,
-                v,
-                reason: rep.reason,
-            });
-        }
+        self.steps +=
+            solve_at_channel_level(p, &mut self.solver, &mut self.psi, &gate, &self.opts)?;
         let s = self.sign;
         let vt = si.vt;
         Ok(p.column_integral(&self.psi, 0, |x| si.ni * (s * (x - v) / vt).exp()))
