@@ -30,14 +30,13 @@ use std::path::{Path, PathBuf};
 
 use rayon::prelude::*;
 
-use crate::device::Scenario;
 use crate::io::hdf5::read_sweep;
 use crate::io::{AxisValue, IoError, SweepFile};
 use crate::plot::{series_labels, sweep_plots, PlotError, Series, Theory};
 use crate::run::CAUTION;
 use crate::sweep::{parse_plan, run_sweep, PlanError, SweepError, SweepObserver, SweepOptions};
-use crate::theory::short_channel::{estimate, planar_barrier_v, ShortChannelEstimate};
-use crate::theory::{lambda_report, predict_fin, TheoryError};
+use crate::theory::short_channel::{theory_inputs, ShortChannelEstimate, TheoryInputs};
+use crate::theory::TheoryError;
 
 /// Gate lengths of the full demo, nm.
 pub const DEMO_LENGTHS_NM: [f64; 8] = [14.0, 18.0, 22.0, 26.0, 32.0, 38.0, 45.0, 60.0];
@@ -319,19 +318,6 @@ pub fn shortest_compliant(
         .min_by(|a, b| a.gate_length_nm.total_cmp(&b.gate_length_nm))
 }
 
-/// Theory inputs of one architecture: (lambda nm, V_bi - phi_s V, SS_long mV/dec).
-fn theory_inputs(s: &Scenario) -> Result<(f64, f64, f64), TheoryError> {
-    let lambda = lambda_report(s)?.lambda_numeric_nm;
-    let (barrier, ss_long) = if s.architecture.is_planar() {
-        let (b, _, ss) = planar_barrier_v(s)?;
-        (b, ss)
-    } else {
-        let f = predict_fin(s)?;
-        (f.barrier_v, f.ss_long_mv_per_dec)
-    };
-    Ok((lambda, barrier, ss_long))
-}
-
 /// Runs the demo into `out_dir` (created if missing; `sweep.h5`, the figures
 /// and `summary.txt` in it are overwritten). Progress goes to `observer`.
 pub fn run_demo(
@@ -362,7 +348,7 @@ pub fn run_demo(
         .num_threads(o.jobs)
         .build()
         .map_err(|e| DemoError::Sweep(SweepError::Pool(e.to_string())))?;
-    let inputs: Vec<Result<(f64, f64, f64), DemoError>> = pool.install(|| {
+    let inputs: Vec<Result<TheoryInputs, DemoError>> = pool.install(|| {
         VARIANTS
             .par_iter()
             .map(|v| {
@@ -396,29 +382,16 @@ pub fn run_demo(
     let mut lengths = o.lengths_nm.clone();
     lengths.sort_by(f64::total_cmp);
     for (v, inp) in VARIANTS.iter().zip(inputs) {
-        let (lambda, barrier, ss_long) = inp?;
+        let inp = inp?;
+        let lambda = inp.lambda_nm;
         let s = &plan
             .points
             .iter()
             .find(|p| p.scenario.architecture.name() == v.0)
             .expect("every architecture is in the plan")
             .scenario;
-        let sign = s.polarity.sign();
-        let est: Vec<ShortChannelEstimate> = lengths
-            .iter()
-            .filter_map(|&l| {
-                estimate(
-                    l,
-                    lambda,
-                    barrier,
-                    s.bias.vds_lin_v,
-                    s.bias.vds_sat_v,
-                    ss_long,
-                    sign,
-                )
-                .ok()
-            })
-            .collect();
+        let est: Vec<ShortChannelEstimate> =
+            lengths.iter().filter_map(|&l| inp.at(l).ok()).collect();
         let label = label_of(v.0);
         let series = |f: &dyn Fn(&ShortChannelEstimate) -> f64| Series {
             label: label.clone(),

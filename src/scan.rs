@@ -6,8 +6,8 @@ use serde::Serialize;
 
 use crate::device::Scenario;
 use crate::run::{run_device, Observer, CAUTION};
-use crate::theory::short_channel::{estimate, fit_lambda_from_dibl, planar_barrier_v, LambdaFit};
-use crate::theory::{lambda_report, predict_fin, TheoryError};
+use crate::theory::short_channel::{fit_lambda_from_dibl, theory_inputs_with_lambda, LambdaFit};
+use crate::theory::{lambda_report, TheoryError};
 
 /// One gate length of a scan.
 #[derive(Debug, Clone, PartialEq, Serialize)]
@@ -88,24 +88,8 @@ pub fn scan(
         .collect::<Result<_, _>>()?;
     let lam = lambda_report(s)?;
     let lambda = lam.lambda_numeric_nm;
-    let sign = s.polarity.sign();
-    let (barrier, vt_long, ss_long) = if s.architecture.is_planar() {
-        planar_barrier_v(s)?
-    } else {
-        let f = predict_fin(s)?;
-        (f.barrier_v, f.vt_long_v, f.ss_long_mv_per_dec)
-    };
-    let theory = |l: f64| {
-        estimate(
-            l,
-            lambda,
-            barrier,
-            s.bias.vds_lin_v,
-            s.bias.vds_sat_v,
-            ss_long,
-            sign,
-        )
-    };
+    let inputs = theory_inputs_with_lambda(s, lambda)?;
+    let theory = |l: f64| inputs.at(l);
     let rows: Vec<ScanRow> = scenarios
         .par_iter()
         .map(|sc| {
@@ -177,9 +161,9 @@ pub fn scan(
                           low-density stretch that limits subthreshold current, about 1/L), so its fit reads \
                           long; the barrier lowering is the purely electrostatic measure."
             .into(),
-        vt_long_v: vt_long,
-        ss_long_mv_per_dec: ss_long,
-        theory_barrier_v: barrier,
+        vt_long_v: inputs.vt_long_v,
+        ss_long_mv_per_dec: inputs.ss_long_mv_per_dec,
+        theory_barrier_v: inputs.barrier_v,
         rows,
         caution: CAUTION.into(),
     })

@@ -92,13 +92,10 @@ impl NewtonOptions {
 
 /// Matrix pattern, symbolic factorisation and workspace for one mesh.
 pub struct PoissonSolver {
-    n: usize,
-    unknown_of: Vec<usize>,
-    node_of: Vec<usize>,
-    col_ptr: Vec<usize>,
-    row_idx: Vec<usize>,
+    /// Matrix pattern and node numbering, shared by clones (one per mesh).
+    pattern: std::sync::Arc<Pattern>,
+    /// Jacobian values (off-diagonals fixed on a mesh, diagonal per step).
     values: Vec<f64>,
-    diag_pos: Vec<usize>,
     symbolic: std::sync::Arc<SymbolicCholesky<usize>>,
     l_values: Vec<f64>,
     fmem: MemBuffer,
@@ -111,34 +108,25 @@ pub struct PoissonSolver {
 
 impl Clone for PoissonSolver {
     fn clone(&self) -> Self {
-        PoissonSolver::with_symbolic(self.pattern_parts(), self.symbolic.clone())
+        PoissonSolver::with_symbolic(
+            self.pattern.clone(),
+            self.values.clone(),
+            self.symbolic.clone(),
+        )
     }
 }
 
+/// The Jacobian's CSC pattern (full symmetric) and the node/unknown maps.
 struct Pattern {
     n: usize,
-    unknown_of: Vec<usize>,
     node_of: Vec<usize>,
     col_ptr: Vec<usize>,
     row_idx: Vec<usize>,
-    values: Vec<f64>,
     diag_pos: Vec<usize>,
 }
 
 impl PoissonSolver {
-    fn pattern_parts(&self) -> Pattern {
-        Pattern {
-            n: self.n,
-            unknown_of: self.unknown_of.clone(),
-            node_of: self.node_of.clone(),
-            col_ptr: self.col_ptr.clone(),
-            row_idx: self.row_idx.clone(),
-            values: self.values.clone(),
-            diag_pos: self.diag_pos.clone(),
-        }
-    }
-
-    fn pattern(p: &Problem) -> Pattern {
+    fn pattern(p: &Problem) -> (Pattern, Vec<f64>) {
         let nx = p.nx;
         let mut unknown_of = vec![NONE; p.node_count()];
         let mut node_of = Vec::new();
@@ -191,20 +179,21 @@ impl PoissonSolver {
             }
             col_ptr.push(row_idx.len());
         }
-        Pattern {
-            n,
-            unknown_of,
-            node_of,
-            col_ptr,
-            row_idx,
+        (
+            Pattern {
+                n,
+                node_of,
+                col_ptr,
+                row_idx,
+                diag_pos,
+            },
             values,
-            diag_pos,
-        }
+        )
     }
 
     /// Orders and analyses the Jacobian's pattern for this mesh (done once).
     pub fn new(p: &Problem) -> Result<Self, SolveError> {
-        let pat = Self::pattern(p);
+        let (pat, values) = Self::pattern(p);
         let sym =
             SymbolicSparseColMatRef::new_checked(pat.n, pat.n, &pat.col_ptr, None, &pat.row_idx);
         let symbolic = factorize_symbolic_cholesky(
@@ -214,24 +203,27 @@ impl PoissonSolver {
             CholeskySymbolicParams::default(),
         )
         .map_err(|e| SolveError::Symbolic(format!("{e:?}")))?;
-        Ok(Self::with_symbolic(pat, std::sync::Arc::new(symbolic)))
+        Ok(Self::with_symbolic(
+            std::sync::Arc::new(pat),
+            values,
+            std::sync::Arc::new(symbolic),
+        ))
     }
 
-    fn with_symbolic(pat: Pattern, symbolic: std::sync::Arc<SymbolicCholesky<usize>>) -> Self {
+    fn with_symbolic(
+        pattern: std::sync::Arc<Pattern>,
+        values: Vec<f64>,
+        symbolic: std::sync::Arc<SymbolicCholesky<usize>>,
+    ) -> Self {
         let par = Par::Seq;
         let l_values = vec![0.0; symbolic.len_val()];
         let fmem =
             MemBuffer::new(symbolic.factorize_numeric_llt_scratch::<f64>(par, Default::default()));
         let smem = MemBuffer::new(symbolic.solve_in_place_scratch::<f64>(1, par));
         PoissonSolver {
-            n: pat.n,
-            rhs: vec![0.0; pat.n],
-            unknown_of: pat.unknown_of,
-            node_of: pat.node_of,
-            col_ptr: pat.col_ptr,
-            row_idx: pat.row_idx,
-            values: pat.values,
-            diag_pos: pat.diag_pos,
+            rhs: vec![0.0; pattern.n],
+            pattern,
+            values,
             symbolic,
             l_values,
             fmem,
@@ -243,7 +235,7 @@ impl PoissonSolver {
 
     /// Number of unknowns.
     pub fn unknowns(&self) -> usize {
-        self.n
+        self.pattern.n
     }
 
     /// Fills `rhs` with the residual F and the diagonal of -dF/dpsi; returns the
@@ -251,12 +243,13 @@ impl PoissonSolver {
     fn assemble(&mut self, p: &Problem, psi: &[f64], qf: &QuasiFermi) -> f64 {
         let nx = p.nx;
         let mut worst: f64 = 0.0;
-        for u in 0..self.n {
-            let k = self.node_of[u];
+        let pat = &self.pattern;
+        for u in 0..pat.n {
+            let k = pat.node_of[u];
             let i = k % nx;
             let (f, d) = p.residual(psi, i, k / nx, qf.phi_n[i], qf.phi_p[i]);
             self.rhs[u] = f;
-            self.values[self.diag_pos[u]] = d;
+            self.values[pat.diag_pos[u]] = d;
             worst = worst.max((f / d).abs());
         }
         worst
@@ -288,11 +281,11 @@ impl PoissonSolver {
         if refactor || !self.factored {
             let a = SparseColMatRef::new(
                 SymbolicSparseColMatRef::new_checked(
-                    self.n,
-                    self.n,
-                    &self.col_ptr,
+                    self.pattern.n,
+                    self.pattern.n,
+                    &self.pattern.col_ptr,
                     None,
-                    &self.row_idx,
+                    &self.pattern.row_idx,
                 ),
                 &self.values,
             );
@@ -312,12 +305,13 @@ impl PoissonSolver {
             self.factorisations += 1;
         }
         let llt = faer::sparse::linalg::cholesky::LltRef::new(&self.symbolic, &self.l_values);
-        let x = MatMut::from_column_major_slice_mut(&mut self.rhs, self.n, 1);
+        let pat = &self.pattern;
+        let x = MatMut::from_column_major_slice_mut(&mut self.rhs, pat.n, 1);
         llt.solve_in_place_with_conj(Conj::No, x, par, MemStack::new(&mut self.smem));
         let mut max_update: f64 = 0.0;
-        for u in 0..self.n {
+        for u in 0..pat.n {
             let d = self.rhs[u];
-            let k = self.node_of[u];
+            let k = pat.node_of[u];
             if !d.is_finite() {
                 return Err(SolveError::NonFinite {
                     node: k,

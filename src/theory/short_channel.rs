@@ -470,3 +470,62 @@ mod tests {
         assert!(fit_lambda_from_dibl(&pts[..1], 0.0).is_err());
     }
 }
+
+/// What the short-channel model needs from a device; none of it depends on
+/// the gate length, so one call serves a whole scan over L.
+#[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
+pub struct TheoryInputs {
+    /// Numeric body natural length, nm.
+    pub lambda_nm: f64,
+    /// V_bi - phi_s, V.
+    pub barrier_v: f64,
+    pub vt_long_v: f64,
+    pub ss_long_mv_per_dec: f64,
+    pub vds_lin_v: f64,
+    pub vds_sat_v: f64,
+    pub sign: f64,
+}
+
+/// The model's inputs for any architecture: the numeric lambda, and the
+/// barrier and long-channel figures from the 1D column (planar) or the
+/// cross-section (fins and wires).
+pub fn theory_inputs(s: &Scenario) -> Result<TheoryInputs, TheoryError> {
+    theory_inputs_with_lambda(s, crate::theory::lambda_report(s)?.lambda_numeric_nm)
+}
+
+/// [`theory_inputs`] with the numeric natural length already known (nm).
+pub fn theory_inputs_with_lambda(
+    s: &Scenario,
+    lambda_nm: f64,
+) -> Result<TheoryInputs, TheoryError> {
+    let (barrier_v, vt_long_v, ss_long_mv_per_dec) = if s.architecture.is_planar() {
+        planar_barrier_v(s)?
+    } else {
+        let f = predict_fin(s)?;
+        (f.barrier_v, f.vt_long_v, f.ss_long_mv_per_dec)
+    };
+    Ok(TheoryInputs {
+        lambda_nm,
+        barrier_v,
+        vt_long_v,
+        ss_long_mv_per_dec,
+        vds_lin_v: s.bias.vds_lin_v,
+        vds_sat_v: s.bias.vds_sat_v,
+        sign: s.polarity.sign(),
+    })
+}
+
+impl TheoryInputs {
+    /// The model's figures at gate length `l_nm`.
+    pub fn at(&self, l_nm: f64) -> Result<ShortChannelEstimate, TheoryError> {
+        estimate(
+            l_nm,
+            self.lambda_nm,
+            self.barrier_v,
+            self.vds_lin_v,
+            self.vds_sat_v,
+            self.ss_long_mv_per_dec,
+            self.sign,
+        )
+    }
+}
