@@ -66,6 +66,10 @@ pub struct PlotArgs {
     /// Folder for the PNG and SVG figures (created if missing).
     #[arg(long, short)]
     pub out: PathBuf,
+    /// Folder the plan's relative `base` path is resolved from, to draw the
+    /// theory curves (default: the sweep file's folder, then the current one).
+    #[arg(long, value_name = "DIR")]
+    pub plan_dir: Option<PathBuf>,
 }
 
 struct Bar(ProgressBar);
@@ -168,7 +172,36 @@ pub fn merge(args: &MergeArgs) -> anyhow::Result<i32> {
 /// Runs `gatehold plot`.
 pub fn plot(args: &PlotArgs) -> anyhow::Result<i32> {
     let f = gatehold::io::hdf5::read_sweep(&args.file)?;
-    let files = gatehold::plot::sweep_plots(&f, &args.out, &gatehold::plot::Theory::default())?;
+    let file_dir = args.file.parent().map(PathBuf::from).unwrap_or_default();
+    let dirs: Vec<PathBuf> = match &args.plan_dir {
+        Some(d) => vec![d.clone()],
+        None => vec![file_dir, PathBuf::from(".")],
+    };
+    // Theory curves need the plan's devices; without them the solved series are still drawn.
+    let mut why = String::new();
+    let plan = dirs
+        .iter()
+        .find_map(|d| match sweep::parse_plan(&f.meta.plan, d) {
+            Ok(p) => Some(p),
+            Err(e) => {
+                why = e.to_string();
+                None
+            }
+        });
+    let theory = match &plan {
+        Some(p) => {
+            let (t, notes) = gatehold::plot::theory_for_sweep(&f, p);
+            for n in notes {
+                eprintln!("note: {n}");
+            }
+            t
+        }
+        None => {
+            eprintln!("note: no theory curves: the stored plan does not resolve here ({why}); pass --plan-dir");
+            gatehold::plot::Theory::default()
+        }
+    };
+    let files = gatehold::plot::sweep_plots(&f, &args.out, &theory)?;
     for p in &files {
         println!("{}", p.display());
     }

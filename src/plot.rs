@@ -704,3 +704,75 @@ pub fn sweep_plots(f: &SweepFile, dir: &Path, theory: &Theory) -> Result<Vec<Pat
     }
     Ok(files)
 }
+
+/// Theory curves for every series of a sweep file (one series per
+/// combination of the axes other than the gate length, labelled as
+/// [`series_labels`]): Liu et al. (IEEE TED 40(1), 86, 1993) with the numeric
+/// natural length, from one [`crate::theory::short_channel::theory_inputs`] per
+/// series (the first point's device: nothing in it depends on L_g), evaluated at
+/// every gate length the series holds. Series whose theory fails are left out
+/// and named in the returned notes.
+pub fn theory_for_sweep(f: &SweepFile, plan: &crate::sweep::Plan) -> (Theory, Vec<String>) {
+    use rayon::prelude::*;
+    let labels = series_labels(f);
+    let mut order: Vec<String> = Vec::new();
+    for l in &labels {
+        if !order.contains(l) {
+            order.push(l.clone());
+        }
+    }
+    let results: Vec<(
+        String,
+        Result<Vec<crate::theory::short_channel::ShortChannelEstimate>, String>,
+    )> = order
+        .par_iter()
+        .map(|label| {
+            let rows: Vec<&crate::sweep::plan::PlanPoint> = f
+                .rows
+                .iter()
+                .zip(&labels)
+                .filter(|(_, l)| *l == label)
+                .filter_map(|(r, _)| plan.points.get(r.index))
+                .collect();
+            let Some(first) = rows.first() else {
+                return (label.clone(), Err("no points".to_string()));
+            };
+            let inputs = match crate::theory::short_channel::theory_inputs(&first.scenario) {
+                Ok(i) => i,
+                Err(e) => return (label.clone(), Err(e.to_string())),
+            };
+            let mut lengths: Vec<f64> = rows
+                .iter()
+                .map(|p| p.scenario.geometry.gate_length_nm)
+                .collect();
+            lengths.sort_by(f64::total_cmp);
+            lengths.dedup();
+            (
+                label.clone(),
+                Ok(lengths.iter().filter_map(|&l| inputs.at(l).ok()).collect()),
+            )
+        })
+        .collect();
+    let mut theory = Theory::default();
+    let mut notes = Vec::new();
+    for (label, r) in results {
+        match r {
+            Ok(est) => {
+                let series =
+                    |g: &dyn Fn(&crate::theory::short_channel::ShortChannelEstimate) -> f64| {
+                        Series {
+                            label: label.clone(),
+                            points: est.iter().map(|e| (e.gate_length_nm, g(e))).collect(),
+                        }
+                    };
+                theory
+                    .vt_rolloff_mv
+                    .push(series(&|e| 1000.0 * e.roll_off_lin_v));
+                theory.dibl_mv_per_v.push(series(&|e| e.dibl_mv_per_v));
+                theory.ss_mv_per_dec.push(series(&|e| e.ss_mv_per_dec));
+            }
+            Err(e) => notes.push(format!("no theory curve for {label}: {e}")),
+        }
+    }
+    (theory, notes)
+}

@@ -491,13 +491,23 @@ fn plots_from_a_sweep_file_and_a_device() {
     let (path, _) = reference();
     let f = read_sweep(path).unwrap();
     let out = dir().join("plots");
-    let theory = gatehold::plot::Theory {
-        dibl_mv_per_v: vec![gatehold::plot::Series {
-            label: "body_thickness_nm=5, workfunction_eV=4.6".into(),
-            points: vec![(10.0, 150.0), (20.0, 40.0)],
-        }],
-        ..Default::default()
-    };
+    // Theory curves from the stored plan: one per series (body thickness and
+    // work function zipped), at each of the series' gate lengths, falling with L.
+    let stored = parse_plan(&f.meta.plan, dir()).unwrap();
+    let (theory, notes) = gatehold::plot::theory_for_sweep(&f, &stored);
+    assert!(notes.is_empty(), "{notes:?}");
+    assert_eq!(theory.dibl_mv_per_v.len(), 2);
+    for s in &theory.dibl_mv_per_v {
+        let l: Vec<f64> = s.points.iter().map(|p| p.0).collect();
+        assert_eq!(l, [10.0, 14.0, 20.0], "{}", s.label);
+        assert!(
+            s.points.windows(2).all(|w| w[1].1 < w[0].1),
+            "{}: {:?}",
+            s.label,
+            s.points
+        );
+    }
+    assert_eq!(theory.ss_mv_per_dec.len(), 2);
     let files = gatehold::plot::sweep_plots(&f, &out, &theory).unwrap();
     let names: Vec<String> = files
         .iter()
