@@ -13,12 +13,16 @@ fn fmt(v: Option<f64>, digits: usize) -> String {
 pub fn device_text(r: &DeviceReport) -> String {
     let mut o = String::new();
     let line = |o: &mut String, label: &str, value: String, unit: &str| {
-        o.push_str(&format!("  {label:<34} {value:>12} {unit}\n"));
+        o.push_str(&format!("  {label:<44} {value:>12} {unit}\n"));
     };
     o.push_str(&format!(
         "{} ({} {}-channel, {} K)\n",
         r.name, r.architecture, r.polarity, r.temperature_k
     ));
+    o.push_str(match r.method.as_str() {
+        "theory" => "  method: long-channel cross-section solve; short-channel figures are THEORY (Liu et al. 1993 with the numeric natural length)\n",
+        _ => "  method: 2D along-channel nonlinear Poisson solve at both drain biases\n",
+    });
     line(
         &mut o,
         "gate length L_g",
@@ -107,6 +111,12 @@ pub fn device_text(r: &DeviceReport) -> String {
     );
     line(
         &mut o,
+        "natural length (numeric)",
+        fmt(r.lambda_numeric_nm, 2),
+        "nm",
+    );
+    line(
+        &mut o,
         &format!(
             "natural length ({})",
             r.natural_length_formula.as_deref().unwrap_or("closed form")
@@ -114,12 +124,12 @@ pub fn device_text(r: &DeviceReport) -> String {
         fmt(r.natural_length_nm, 2),
         "nm (closed form, EOT-based)",
     );
-    if let Some(l) = r.natural_length_nm {
+    if let Some(l) = r.lambda_numeric_nm.or(r.natural_length_nm) {
         line(
             &mut o,
             "L_g / natural length",
             format!("{:.1}", r.gate_length_nm / l),
-            "",
+            "(common practice: at least 5-6)",
         );
     }
     o.push_str(&format!(
