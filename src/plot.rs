@@ -82,6 +82,45 @@ fn fonts() -> Result<(), PlotError> {
 
 type DrawResult = Result<(), Box<dyn Error>>;
 
+/// The legend box every figure uses.
+fn draw_legend<'a, DB: DrawingBackend + 'a, CT: plotters::coord::CoordTranslate>(
+    chart: &mut ChartContext<'a, DB, CT>,
+    font_size: u32,
+    position: SeriesLabelPosition,
+) -> DrawResult
+where
+    DB::ErrorType: 'static,
+{
+    chart
+        .configure_series_labels()
+        .position(position)
+        .border_style(BLACK)
+        .background_style(WHITE.mix(0.85))
+        .label_font((FONT, font_size))
+        .draw()?;
+    Ok(())
+}
+
+/// A solid labelled line in colour `c` on a linear chart.
+fn draw_solid<'a, DB: DrawingBackend + 'a>(
+    chart: &mut ChartContext<
+        'a,
+        DB,
+        Cartesian2d<plotters::coord::types::RangedCoordf64, plotters::coord::types::RangedCoordf64>,
+    >,
+    s: &Series,
+    c: RGBColor,
+) -> DrawResult
+where
+    DB::ErrorType: 'static,
+{
+    chart
+        .draw_series(LineSeries::new(s.points.iter().copied(), c.stroke_width(2)))?
+        .label(&s.label)
+        .legend(move |(x, y)| PathElement::new(vec![(x, y), (x + 18, y)], c.stroke_width(2)));
+    Ok(())
+}
+
 /// Draws the same figure to `dir/stem.png` and `dir/stem.svg`.
 macro_rules! render {
     ($dir:expr, $stem:expr, $size:expr, |$root:ident| $body:expr) => {{
@@ -167,10 +206,7 @@ where
         .draw()?;
     for (k, s) in solved.iter().enumerate() {
         let c = PALETTE[k % PALETTE.len()];
-        chart
-            .draw_series(LineSeries::new(s.points.iter().copied(), c.stroke_width(2)))?
-            .label(&s.label)
-            .legend(move |(x, y)| PathElement::new(vec![(x, y), (x + 18, y)], c.stroke_width(2)));
+        draw_solid(&mut chart, s, c)?;
         chart.draw_series(s.points.iter().map(|&p| Circle::new(p, 4, c.filled())))?;
     }
     for (k, s) in theory.iter().enumerate() {
@@ -189,13 +225,7 @@ where
             .label(format!("{} (theory)", s.label))
             .legend(move |(x, y)| PathElement::new(vec![(x, y), (x + 18, y)], c.stroke_width(1)));
     }
-    chart
-        .configure_series_labels()
-        .border_style(BLACK)
-        .background_style(WHITE.mix(0.85))
-        .label_font((FONT, 13))
-        .draw()?;
-    Ok(())
+    draw_legend(&mut chart, 13, SeriesLabelPosition::UpperRight)
 }
 
 /// A figure against gate length: solved series (lines with markers) and
@@ -265,14 +295,7 @@ where
             .legend(move |(x, y)| PathElement::new(vec![(x, y), (x + 18, y)], col.stroke_width(2)));
         chart.draw_series(pts.iter().map(|&p| Circle::new(p, 3, col.filled())))?;
     }
-    chart
-        .configure_series_labels()
-        .position(SeriesLabelPosition::LowerRight)
-        .border_style(BLACK)
-        .background_style(WHITE.mix(0.85))
-        .label_font((FONT, 14))
-        .draw()?;
-    Ok(())
+    draw_legend(&mut chart, 14, SeriesLabelPosition::LowerRight)
 }
 
 /// I_D-V_G on a log scale at both drain biases (`vds` = (lin, sat), V).
@@ -452,19 +475,9 @@ where
         ))?;
     }
     for (k, s) in curves.iter().enumerate() {
-        let c = PALETTE[k % PALETTE.len()];
-        chart
-            .draw_series(LineSeries::new(s.points.iter().copied(), c.stroke_width(2)))?
-            .label(&s.label)
-            .legend(move |(x, y)| PathElement::new(vec![(x, y), (x + 18, y)], c.stroke_width(2)));
+        draw_solid(&mut chart, s, PALETTE[k % PALETTE.len()])?;
     }
-    chart
-        .configure_series_labels()
-        .border_style(BLACK)
-        .background_style(WHITE.mix(0.85))
-        .label_font((FONT, 14))
-        .draw()?;
-    Ok(())
+    draw_legend(&mut chart, 14, SeriesLabelPosition::UpperRight)
 }
 
 /// Channel-carrier band edge along the leakiest row at both drain biases
