@@ -2,7 +2,7 @@
 //!
 //! - `refactorisation`: one numeric Cholesky + solve of the double-gate demo
 //!   device's Jacobian (symbolic analysis done once, outside the timing).
-//! - `full_extraction`: `run_device` on the double-gate demo device
+//! - `full_extraction`: `evaluate_alone` (reference and both drain ramps) on the double-gate demo device
 //!   (two drain sweeps of 51 gate voltages each, long-channel reference, figures).
 //!   Target (issue 2): under 0.3 s on the 2-core machine.
 //!
@@ -10,7 +10,8 @@
 
 use criterion::{criterion_group, criterion_main, Criterion};
 use gatehold::device::load_device;
-use gatehold::run::{run_device, Silent};
+use gatehold::evaluate::evaluate_alone;
+use gatehold::progress::Silent;
 use gatehold::solve::{neutral_guess, PoissonSolver, QuasiFermi};
 use gatehold::structure::along_channel;
 
@@ -36,7 +37,7 @@ fn bench(c: &mut Criterion) {
     g.sample_size(10);
     g.bench_function(
         "full_extraction (double-gate demo, 2 x 51 bias points)",
-        |b| b.iter(|| run_device(&s, &Silent).expect("run").report.vt_lin_v),
+        |b| b.iter(|| evaluate_alone(&s, &Silent).expect("run").report.vt_lin_v),
     );
     g.finish();
 }

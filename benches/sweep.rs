@@ -3,9 +3,10 @@
 //! Run: cargo bench --bench sweep
 
 use criterion::{criterion_group, criterion_main, Criterion};
+use gatehold::evaluate::{CriteriaVerdict, DeviceReport, Status};
 use gatehold::io::hdf5::{to_bytes, write_sweep};
 use gatehold::io::{AxisColumn, AxisValue, CurveData, PointRow, SweepFile, SweepMeta};
-use gatehold::sweep::{parse_plan, run_sweep, Quiet, SweepOptions, FALLBACK_FIGURES};
+use gatehold::sweep::{parse_plan, run_sweep, Quiet, SweepOptions};
 
 fn synthetic(points: usize) -> SweepFile {
     let v: Vec<f64> = (0..51).map(|k| -0.2 + 0.02 * k as f64).collect();
@@ -16,13 +17,12 @@ fn synthetic(points: usize) -> SweepFile {
                 AxisValue::Number(10.0 + i as f64),
                 AxisValue::Text("double-gate".into()),
             ],
-            figures: FALLBACK_FIGURES
-                .iter()
+            figures: DeviceReport::scalar_names()
                 .enumerate()
                 .map(|(k, _)| Some(k as f64 * 0.1 + i as f64))
                 .collect(),
-            status: "ok".into(),
-            meets_criteria: 1,
+            status: Status::Ok,
+            meets_criteria: CriteriaVerdict::Meets,
             newton_steps: 400,
             vds_v: (0.05, 0.8),
             elapsed_s: 1.0,
@@ -57,7 +57,7 @@ fn synthetic(points: usize) -> SweepFile {
                 numeric: false,
             },
         ],
-        figures: FALLBACK_FIGURES.iter().map(|s| s.to_string()).collect(),
+        figures: DeviceReport::scalar_names().map(str::to_string).collect(),
         rows,
     }
 }

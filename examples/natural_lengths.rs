@@ -17,7 +17,8 @@
 //! oxide is much longer than its closed forms (the field reaches through the oxide).
 
 use gatehold::device::parse_device;
-use gatehold::theory::lambda_report;
+use gatehold::evaluate::natural_length;
+use gatehold::progress::Silent;
 
 /// A device at L_g = 25 nm: architecture, body (or fin) nm, and the gate-stack TOML.
 fn device(arch: &str, body_nm: f64, stack: &str) -> String {
@@ -57,7 +58,7 @@ fn main() -> Result<(), Box<dyn std::error::Error>> {
     );
     for (arch, body, stack_name, stack) in cases {
         let s = parse_device(&device(arch, body, stack))?;
-        let r = lambda_report(&s)?;
+        let r = natural_length(&s, &Silent)?;
         let forms: Vec<String> = r
             .lambda_closed_forms
             .iter()

@@ -15,7 +15,8 @@
 //!
 
 use gatehold::device::parse_device;
-use gatehold::run::{evaluate, Silent, CAUTION};
+use gatehold::evaluate::{evaluate_alone, CAUTION};
+use gatehold::progress::Silent;
 
 const DEVICE: &str = r#"
 name = "example-dg"
@@ -41,7 +42,7 @@ vgs_step_V = 0.025
 
 fn main() -> Result<(), Box<dyn std::error::Error>> {
     let s = parse_device(DEVICE)?;
-    let r = evaluate(&s, &Silent)?.report;
+    let r = evaluate_alone(&s, &Silent)?.report;
     let v = |x: Option<f64>| x.map_or("n/a".to_string(), |x| format!("{x:.4}"));
     let m = |x: Option<f64>| x.map_or("n/a".to_string(), |x| format!("{x:.1}"));
     println!(

@@ -77,7 +77,12 @@ fn main() -> Result<(), Box<dyn std::error::Error>> {
     for (k, r) in f.rows.iter().enumerate() {
         println!(
             "  {:6.1}   {:9.4}   {:9.1}   {:9.1}   {:5}  {}",
-            lg[k], vt[k], dibl[k], ss[k], r.meets_criteria, r.status
+            lg[k],
+            vt[k],
+            dibl[k],
+            ss[k],
+            r.meets_criteria.code(),
+            r.status
         );
     }
     std::fs::remove_dir_all(&dir)?;

@@ -5,42 +5,48 @@
 //! subthreshold swing and barrier lowering; the natural length of any stack
 //! or fin cross-section is computed numerically beside the published closed forms.
 //!
-//! Data flows one way:
+//! Data flows one way; each folder is one stage:
 //!
 //! | stage | module | entry point |
 //! |---|---|---|
-//! | constants, materials | [`physics`] | [`physics::Silicon::at`] |
-//! | device file to checked scenario | [`device`] | [`device::load_device`], [`device::parse_device`] |
+//! | constants, materials, internal units | [`physics`] | [`physics::Silicon::at`] |
+//! | device file to checked scenario (one unit system, typed polarity) | [`device`] | [`device::load_device`], [`device::parse_device`] |
+//! | planar and fin geometry and doping | [`structure`] | [`structure::along_channel`], [`structure::long_channel_column`], [`structure::cross_section`] |
 //! | mesh lines | [`mesh`] | [`mesh::graded_line`] |
-//! | structure (materials, nodes, doping) | [`structure`] | [`structure::along_channel`], [`structure::long_channel_column`] |
 //! | box-integration discretisation | [`discretize`] | [`discretize::Problem`] |
-//! | Newton solve, sparse Cholesky | [`solve`] | [`solve::PoissonSolver`] |
-//! | quasi-Fermi level and current | [`transport`] | [`transport::quasi_fermi`] |
-//! | bias sweeps and the whole device | [`run`] | [`run::run_device`] |
-//! | V_t, SS, DIBL, barriers | [`extract`] | [`extract::threshold`] |
-//! | closed forms, natural length | [`theory`] | [`theory::closed_form`] |
-//! | the built-in demonstration | [`demo`] | [`demo::run_demo`] |
+//! | Cholesky, Newton, Anderson, quasi-Fermi loop, continuation, uniform-level solver | [`solve`] | [`solve::DeviceSolver`], [`solve::UniformChannel`] |
+//! | V_t, SS, DIBL, barrier, long channel | [`extract`] | [`extract::ramp_figures`], [`extract::extract_long_channel`] |
+//! | closed forms, natural length, short-channel model (pure) | [`theory`] | [`theory::lambda_report`], [`theory::TheoryInputs`] |
+//! | a whole device, its reference, scans, the report type | [`evaluate`] | [`evaluate::Reference::of`], [`evaluate::evaluate`], [`evaluate::scan::scan`] |
+//! | plans, parallel sweeps, shards, shortest compliant length | [`sweep`] | [`sweep::run_sweep`], [`sweep::shortest::per_series`] |
+//! | the sweep file model, HDF5 and CSV | [`io`] | [`io::hdf5::write_sweep`], [`io::hdf5::read_sweep`] |
+//! | every text table | [`render`] | [`render::device::device_text`] |
+//! | drawing | [`plot`] | [`plot::sweep_plots`], [`plot::device_plots`] |
+//! | the built-in demo scenario (data) | [`demo`] | [`demo::plan`] |
+//! | progress to a caller | [`progress`] | [`progress::Observer`] |
+//!
+//! Dependencies point one way: nothing numerical (structure through
+//! evaluate) imports `io`, `render`, `plot` or the command line, and
+//! `theory` imports no solver. The binary's command line lives in
+//! `src/cli/`.
 //!
 //! Limitations: classical (Boltzmann) carriers, no quantum confinement, no
 //! velocity saturation, constant mobility, a quasi-Fermi level uniform over
 //! each cross-section. Results rank geometries before full device simulation;
 //! they are not sign-off figures.
 
-pub mod crosssection;
 pub mod demo;
 pub mod device;
 pub mod discretize;
+pub mod evaluate;
 pub mod extract;
 pub mod io;
-pub mod long_channel;
 pub mod mesh;
 pub mod physics;
 pub mod plot;
-pub mod run;
-pub mod scan;
+pub mod progress;
+pub mod render;
 pub mod solve;
 pub mod structure;
-pub mod summary;
 pub mod sweep;
 pub mod theory;
-pub mod transport;

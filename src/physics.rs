@@ -64,7 +64,7 @@ pub fn intrinsic_density_cm3(temperature_k: f64) -> f64 {
 pub struct Silicon {
     pub temperature_k: f64,
     /// Thermal voltage, V.
-    pub vt: f64,
+    pub thermal_v: f64,
     /// Band gap, eV.
     pub eg_ev: f64,
     /// Intrinsic density, nm^-3.
@@ -78,7 +78,7 @@ impl Silicon {
         let eg = band_gap_ev(temperature_k);
         Silicon {
             temperature_k,
-            vt: thermal_voltage(temperature_k),
+            thermal_v: thermal_voltage(temperature_k),
             eg_ev: eg,
             ni: intrinsic_density_cm3(temperature_k) * PER_CM3_TO_PER_NM3,
             phi_i_ev: CHI_SI_EV + 0.5 * eg,
@@ -92,7 +92,7 @@ impl Silicon {
 
     /// Ohmic-contact potential for net doping `net` (nm^-3) at quasi-Fermi level `v`.
     pub fn ohmic_potential(&self, v: f64, net: f64) -> f64 {
-        v + self.vt * (net / (2.0 * self.ni)).asinh()
+        v + self.thermal_v * (net / (2.0 * self.ni)).asinh()
     }
 }
 

@@ -1,11 +1,12 @@
-//! `gatehold demo`: the library demo on a reduced set of lengths (the full
-//! demo takes ~30-50 s on two cores, too long beside the other tests), and
-//! the binary's handling of a bad option.
+//! `gatehold demo`: the binary on a reduced set of lengths (the full demo
+//! takes about 20 s on two cores, long beside the other tests), and its
+//! handling of a bad option.
 
-use gatehold::demo::{run_demo, shortest_compliant, DemoOptions, SUMMARY_FILE};
+use gatehold::demo::{SUMMARY_FILE, SWEEP_FILE};
+use gatehold::evaluate::{Criteria, Status};
 use gatehold::io::hdf5::read_sweep;
 use gatehold::io::AxisValue;
-use gatehold::sweep::Quiet;
+use gatehold::sweep::shortest::per_series;
 
 const ARCHS: [&str; 4] = ["bulk", "thin-body", "double-gate", "tri-gate"];
 
@@ -13,34 +14,52 @@ const ARCHS: [&str; 4] = ["bulk", "thin-body", "double-gate", "tri-gate"];
 fn reduced_demo_file_summary_and_plots_agree() {
     let dir = tempfile::tempdir().unwrap();
     let out = dir.path().join("demo");
-    let lengths = vec![18.0, 26.0, 45.0];
-    let o = DemoOptions {
-        lengths_nm: lengths.clone(),
-        jobs: 2,
-        ..DemoOptions::default()
-    };
-    let r = run_demo(&out, &o, &Quiet).unwrap();
+    let lengths = [18.0, 26.0, 45.0];
+    let run = std::process::Command::new(env!("CARGO_BIN_EXE_gatehold"))
+        .args([
+            "demo",
+            "--quiet",
+            "--jobs",
+            "2",
+            "--lengths",
+            "18,26,45",
+            "--out",
+        ])
+        .arg(&out)
+        .output()
+        .unwrap();
+    let stdout = String::from_utf8_lossy(&run.stdout);
+    println!("{stdout}\nstderr: {}", String::from_utf8_lossy(&run.stderr));
+    assert_eq!(run.status.code(), Some(0));
 
     // The file: one row per point, plan order (length-major), every status ok.
-    let f = read_sweep(&out.join("sweep.h5")).unwrap();
+    let f = read_sweep(&out.join(SWEEP_FILE)).unwrap();
     assert_eq!(f.rows.len(), 12);
     assert!(f.is_complete());
     let arch_col = f.axes.iter().position(|a| a.key == "architecture").unwrap();
     let lg = f.figure("gate_length_nm").unwrap();
     for (k, row) in f.rows.iter().enumerate() {
         assert_eq!(row.index, k);
-        assert_eq!(row.status, "ok", "point {k}: {}", row.status);
+        assert_eq!(row.status, Status::Ok, "point {k}: {}", row.status);
         assert_eq!(row.axis[arch_col], AxisValue::Text(ARCHS[k % 4].into()));
         assert_eq!(lg[k], lengths[k / 4]);
     }
-    assert_eq!(r.failed_points, 0);
 
     // Shortest compliant length recomputed here from the file's figures.
     let dibl = f.figure("dibl_mV_per_V").unwrap();
     let ss_lin = f.figure("ss_lin_mV_per_dec").unwrap();
     let ss_sat = f.figure("ss_sat_mV_per_dec").unwrap();
     let lam = f.figure("lambda_numeric_nm").unwrap();
+    let theory_dibl = f.figure("theory_dibl_mV_per_V").unwrap();
     let summary = std::fs::read_to_string(out.join(SUMMARY_FILE)).unwrap();
+    assert_eq!(summary, stdout, "the printed summary is the file's");
+    let criteria = Criteria {
+        dibl_max_mv_per_v: Some(100.0),
+        ss_max_mv_per_dec: Some(80.0),
+        vt_rolloff_max_mv: None,
+    };
+    let outcomes = per_series(&f, &criteria);
+    assert_eq!(outcomes.len(), 4);
     for (a, arch) in ARCHS.iter().enumerate() {
         let rows: Vec<usize> = (a..12).step_by(4).collect();
         let mine = rows
@@ -48,25 +67,20 @@ fn reduced_demo_file_summary_and_plots_agree() {
             .copied()
             .filter(|&k| dibl[k] <= 100.0 && ss_lin[k].max(ss_sat[k]) <= 80.0)
             .min_by(|&i, &j| lg[i].total_cmp(&lg[j]));
-        let res = &r.architectures[a];
-        assert_eq!(res.architecture, *arch);
-        let got = res.shortest_compliant.as_ref().map(|c| c.gate_length_nm);
+        let res = &outcomes[a];
+        assert_eq!(res.label, *arch);
+        assert_eq!(res.rows, rows);
+        assert_eq!(res.failed_points, 0);
+        let got = res.shortest.as_ref().map(|c| c.gate_length_nm);
         println!("{arch}: expected {:?}, got {got:?}", mine.map(|k| lg[k]));
         assert_eq!(got, mine.map(|k| lg[k]), "{arch}");
-        assert_eq!(
-            shortest_compliant(&f, arch, 100.0, 80.0),
-            res.shortest_compliant
-        );
-        if let (Some(c), Some(k)) = (&res.shortest_compliant, mine) {
+        if let (Some(c), Some(k)) = (&res.shortest, mine) {
             assert_eq!(c.lambda_numeric_nm, lam[k]);
             assert!((c.lg_over_lambda - lg[k] / lam[k]).abs() < 1e-12);
         }
         // Natural lengths in a physical range for these stacks and bodies.
-        assert!(
-            (2.0..12.0).contains(&res.lambda_numeric_nm),
-            "{arch}: lambda {}",
-            res.lambda_numeric_nm
-        );
+        let lambda = res.lambda_numeric_nm.unwrap();
+        assert!((2.0..12.0).contains(&lambda), "{arch}: lambda {lambda}");
         // DIBL falls with L (2D solve and theory alike) and SS stays above the 60 mV/dec limit.
         for w in rows.windows(2) {
             assert!(
@@ -85,23 +99,29 @@ fn reduced_demo_file_summary_and_plots_agree() {
                 ss_sat[k]
             );
         }
-        // Theory at every swept length (the model holds there), falling with L.
-        assert_eq!(res.theory.len(), 3, "{arch}");
-        assert!(res.theory[0].dibl_mv_per_v > res.theory[2].dibl_mv_per_v);
+        // Theory stored at every swept length (the model holds there), falling with L.
+        assert!(rows.iter().all(|&k| theory_dibl[k].is_finite()), "{arch}");
+        assert!(theory_dibl[rows[0]] > theory_dibl[rows[2]]);
         // The summary names the outcome of each architecture.
         let line = summary
             .lines()
             .find(|l| l.trim_start().starts_with(arch))
             .unwrap_or_else(|| panic!("{arch} missing from summary:\n{summary}"));
-        match &res.shortest_compliant {
+        match &res.shortest {
             Some(c) => assert!(line.contains(&format!("{:.1}", c.gate_length_nm)), "{line}"),
             None => assert!(line.contains("none in the range"), "{line}"),
         }
+        let method = if *arch == "tri-gate" {
+            "theory"
+        } else {
+            "2d-solve"
+        };
+        assert!(line.contains(method), "{line}");
     }
     // The double gate holds the targets at a shorter or equal length than bulk.
     let short = |a: usize| {
-        r.architectures[a]
-            .shortest_compliant
+        outcomes[a]
+            .shortest
             .as_ref()
             .map_or(f64::INFINITY, |c| c.gate_length_nm)
     };
@@ -119,7 +139,6 @@ fn reduced_demo_file_summary_and_plots_agree() {
         let svg = std::fs::read_to_string(out.join(format!("{stem}.svg"))).unwrap();
         assert!(svg.len() > 1000 && svg.contains("<svg"), "{stem}.svg");
     }
-    assert!(r.plots.iter().all(|p| p.exists()));
 }
 
 #[test]

@@ -4,13 +4,13 @@ mod common;
 
 use common::*;
 use gatehold::device::Scenario;
-use gatehold::long_channel::Column;
+use gatehold::evaluate::DeviceReport;
 use gatehold::physics::{thermal_voltage, EPS0_F_PER_M, EPS_SI, Q_C};
-use gatehold::run::{run_device, DeviceReport, Silent};
+use gatehold::solve::UniformChannel;
 use rayon::prelude::*;
 
 fn run(s: &Scenario) -> DeviceReport {
-    let r = run_device(s, &Silent).expect("run").report;
+    let r = solve_device(s).report;
     assert!(r.converged, "{}: {:?}", s.name, r.problems);
     assert!(r.problems.is_empty(), "{}: {:?}", s.name, r.problems);
     r
@@ -86,12 +86,12 @@ max_step_nm = 2.5
     let vt = thermal_voltage(300.0);
     // Surface potential (against the neutral bulk) two decades below threshold.
     let vg_mid = r.vt_long_v.unwrap() - 2.0 * r.ss_long_mv_per_dec.unwrap() / 1000.0;
-    let mut col = Column::new(&s).unwrap();
+    let mut col = UniformChannel::column(&s).unwrap();
     col.sheet_density(vg_mid, 0.0).unwrap();
     let p = &col.problem;
     let js = p.y.index_of(0.0).unwrap();
     let si = p.silicon;
-    let psi_bulk = -si.vt * (na * 1e-21 / (2.0 * si.ni)).asinh();
+    let psi_bulk = -si.thermal_v * (na * 1e-21 / (2.0 * si.ni)).asinh();
     let psis = col.potential()[js * p.nx] - psi_bulk;
     let eps_si = EPS_SI * EPS0_F_PER_M * 1e-2; // F/cm
     let wd_cm = (2.0 * eps_si * (psis - vt) / (Q_C * na)).sqrt();
@@ -263,7 +263,7 @@ fn shorter_gates_lose_control_monotonically() {
 fn bad_ranges_are_reported_not_extrapolated() {
     // The sweep stops below threshold: V_t and SS are missing with a reason and a suggestion.
     let s = double_gate(20.0, 8.0, 1.0, "[bias]\nvgs_start_V = -0.3\nvgs_stop_V = 0.05\nvgs_step_V = 0.05\n[mesh]\nmax_step_nm = 1.0\n");
-    let r = run_device(&s, &Silent).unwrap().report;
+    let r = solve_device(&s).report;
     assert!(r.vt_lin_v.is_none() && r.dibl_mv_per_v.is_none());
     assert!(
         r.problems

@@ -3,8 +3,10 @@
 //! as fine (every step, the grading and the maximum halved: `mesh.refinement = 2`).
 //! Devices: the demo devices in meshes/, gate sweep narrowed to the threshold region.
 
+mod common;
+
+use common::*;
 use gatehold::device::load_device;
-use gatehold::run::{run_device, Silent};
 
 fn check(file: &str) {
     let path = std::path::Path::new(env!("CARGO_MANIFEST_DIR"))
@@ -17,7 +19,7 @@ fn check(file: &str) {
     let mut got = Vec::new();
     for r in [1.0, 2.0] {
         s.mesh.refinement = r;
-        let rep = run_device(&s, &Silent).unwrap().report;
+        let rep = solve_device(&s).report;
         assert!(
             rep.problems.is_empty(),
             "{file} refinement {r}: {:?}",

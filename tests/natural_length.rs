@@ -5,17 +5,58 @@
 //! Run: `cargo test --release --test natural_length -- --nocapture` (prints
 //! every computed figure beside what it is checked against).
 
-use gatehold::crosssection::{cross_section, FinChannel, Region};
 use gatehold::device::{parse_device, Scenario};
 use gatehold::discretize::{CellKind, Problem};
-use gatehold::long_channel::Column;
+use gatehold::evaluate::{natural_length, Reference};
 use gatehold::mesh::Line;
 use gatehold::physics::{Silicon, EPS_SI, EPS_SIO2};
+use gatehold::progress::Silent;
+use gatehold::render::lambda::render_text;
+use gatehold::solve::UniformChannel;
+use gatehold::structure::{cross_section, Region};
 use gatehold::theory::closed_form as cf;
-use gatehold::theory::lambda::{
-    lambda_report, material_region, problem_modes, render_text, End, Layer, Stack, StackMesh,
-};
-use gatehold::theory::predict_fin;
+use gatehold::theory::lambda::{material_region, problem_modes, End, Layer, Stack, StackMesh};
+
+fn lambda_of(
+    s: &Scenario,
+) -> Result<gatehold::theory::LambdaReport, gatehold::evaluate::ReferenceError> {
+    natural_length(s, &Silent)
+}
+
+/// A fin's long-channel reference and the theory at its gate length.
+struct FinPrediction {
+    vt_long_v: f64,
+    ss_long_mv_per_dec: f64,
+    lambda_nm: f64,
+    corner_to_top_centre_ratio: f64,
+    corner_to_side_centre_ratio: f64,
+    barrier_v: f64,
+    dibl_mv_per_v: f64,
+    ss_mv_per_dec: f64,
+    roll_off_lin_v: f64,
+    roll_off_sat_v: f64,
+}
+
+fn predict_fin(s: &Scenario) -> Result<FinPrediction, String> {
+    let r = Reference::of(s, &Silent).map_err(|e| e.to_string())?;
+    let fin = r.fin.ok_or("not a fin")?;
+    let th = r.theory?;
+    let est = th
+        .at(s.geometry.gate_length_nm)
+        .map_err(|e| e.to_string())?;
+    Ok(FinPrediction {
+        vt_long_v: th.vt_long_v,
+        ss_long_mv_per_dec: th.ss_long_mv_per_dec,
+        lambda_nm: th.lambda_nm,
+        corner_to_top_centre_ratio: fin.corner_to_top_centre_ratio,
+        corner_to_side_centre_ratio: fin.corner_to_side_centre_ratio,
+        barrier_v: th.barrier_v,
+        dibl_mv_per_v: est.dibl_mv_per_v,
+        ss_mv_per_dec: est.ss_mv_per_dec,
+        roll_off_lin_v: est.roll_off_lin_v,
+        roll_off_sat_v: est.roll_off_sat_v,
+    })
+}
 
 /// A device file with the given architecture, geometry lines and gate stack lines.
 fn scenario(arch: &str, geometry: &str, stack: &str, extra: &str) -> Scenario {
@@ -247,8 +288,8 @@ fn high_k_at_equal_eot_has_a_longer_numeric_lambda() {
     // 0.9998 nm vs 1.0 nm.
     let geo = "body_thickness_nm = 8\nfin_height_nm = 30\nfin_pitch_nm = 40\nbox_thickness_nm = 10";
     for arch in ["double-gate", "thin-body", "tri-gate"] {
-        let lo = lambda_report(&scenario(arch, geo, SIO2_1NM, "")).unwrap();
-        let hk = lambda_report(&scenario(arch, geo, HIGHK_5P64NM, "")).unwrap();
+        let lo = lambda_of(&scenario(arch, geo, SIO2_1NM, "")).unwrap();
+        let hk = lambda_of(&scenario(arch, geo, HIGHK_5P64NM, "")).unwrap();
         for (name, v) in &lo.lambda_closed_forms {
             let w = hk.lambda_closed_forms[name];
             // Closed forms: equal EOT, equal lambda (to the 0.02 % EOT difference).
@@ -284,9 +325,9 @@ fn fin_architectures_rank_and_the_buried_oxide_path_appears_when_thick() {
         "body_thickness_nm = 8\nfin_height_nm = 30\nbox_thickness_nm = 25",
         "body_thickness_nm = 8\nfin_height_nm = 12\nbox_thickness_nm = 10",
     ] {
-        let g = lambda_report(&scenario("gate-all-around", geo, SIO2_1NM, "")).unwrap();
-        let t = lambda_report(&scenario("tri-gate", geo, SIO2_1NM, "")).unwrap();
-        let c = lambda_report(&scenario("capped-fin", geo, SIO2_1NM, "")).unwrap();
+        let g = lambda_of(&scenario("gate-all-around", geo, SIO2_1NM, "")).unwrap();
+        let t = lambda_of(&scenario("tri-gate", geo, SIO2_1NM, "")).unwrap();
+        let c = lambda_of(&scenario("capped-fin", geo, SIO2_1NM, "")).unwrap();
         println!(
             "{}: GAA {:.3} nm < tri-gate {:.3} nm < capped fin {:.3} nm (Colinge n=4/3/2: {:?} {:?} {:?})",
             geo.replace('\n', ", "),
@@ -327,7 +368,7 @@ fn fin_architectures_rank_and_the_buried_oxide_path_appears_when_thick() {
         "{path}"
     );
     // Mesh convergence of the 2D eigenvalue: the default mesh is within 0.1 % of one twice as fine.
-    let fine = lambda_report(&scenario(
+    let fine = lambda_of(&scenario(
         "tri-gate",
         "body_thickness_nm = 8\nfin_height_nm = 30\nbox_thickness_nm = 25",
         SIO2_1NM,
@@ -341,7 +382,7 @@ fn fin_architectures_rank_and_the_buried_oxide_path_appears_when_thick() {
     assert!(rel(tg.lambda_numeric_nm, fine.lambda_numeric_nm) < 1e-3);
     // Thin (4 nm) buried oxide: no slower dielectric path.
     let thin_geo = "body_thickness_nm = 8\nfin_height_nm = 30\nbox_thickness_nm = 4";
-    let thin = lambda_report(&scenario("tri-gate", thin_geo, SIO2_1NM, "")).unwrap();
+    let thin = lambda_of(&scenario("tri-gate", thin_geo, SIO2_1NM, "")).unwrap();
     println!(
         "tri-gate on 4 nm BOX: body {:.3} nm, path {:?}",
         thin.lambda_numeric_nm, thin.lambda_dielectric_path_nm
@@ -375,7 +416,7 @@ fn wire_cross_section_density_approaches_the_double_gate_column() {
         stack,
         "[mesh]\nmax_step_nm = 0.5\n",
     );
-    let mut col = Column::new(&dg).unwrap();
+    let mut col = UniformChannel::column(&dg).unwrap();
     let (vgs, v) = (0.0, 0.0);
     let ns = col.sheet_density(vgs, v).unwrap();
     let mut excess = Vec::new();
@@ -386,8 +427,9 @@ fn wire_cross_section_density_approaches_the_double_gate_column() {
             stack,
             "[mesh]\nmax_step_nm = 0.5\n",
         );
-        let mut fin = FinChannel::new(&s).unwrap();
-        let n_line = fin.line_density(vgs, v).unwrap();
+        let cs = cross_section(&s).unwrap();
+        let mut fin = UniformChannel::fin(&s, &cs).unwrap();
+        let n_line = fin.sheet_density(vgs, v).unwrap() * fin.width_nm;
         let ratio = n_line / (ns * h);
         println!(
             "H = {h} nm: line density {n_line:.4e} /nm, H x column {:.4e} /nm, ratio {ratio:.4}",
@@ -407,12 +449,15 @@ fn fin_prediction_long_channel_and_theory() {
     let extra = "[mesh]\nmax_step_nm = 1.0\n[doping]\nchannel_cm3 = 1e15\n";
     let tg = predict_fin(&scenario("tri-gate", geo, SIO2_1NM, extra)).unwrap();
     let gaa = predict_fin(&scenario("gate-all-around", geo, SIO2_1NM, extra)).unwrap();
-    println!("{}", serde_json::to_string_pretty(&tg).unwrap());
+    println!(
+        "tri-gate: V_t,long {:.4} V, SS_long {:.2} mV/dec, DIBL {:.1} mV/V, lambda {:.3} nm",
+        tg.vt_long_v, tg.ss_long_mv_per_dec, tg.dibl_mv_per_v, tg.lambda_nm
+    );
     println!(
         "GAA: V_t,long {:.4} V, SS_long {:.2} mV/dec, DIBL {:.1} mV/V, lambda {:.3} nm",
         gaa.vt_long_v, gaa.ss_long_mv_per_dec, gaa.dibl_mv_per_v, gaa.lambda_nm
     );
-    let ideal = 1000.0 * std::f64::consts::LN_10 * Silicon::at(300.0).vt;
+    let ideal = 1000.0 * std::f64::consts::LN_10 * Silicon::at(300.0).thermal_v;
     for p in [&tg, &gaa] {
         // A long, undoped, fully depleted multi-gate channel is near the ideal swing
         // ln(10) V_T = 59.5 mV/dec (MODEL.md section 5); never below it.
@@ -466,7 +511,7 @@ fn fin_prediction_long_channel_and_theory() {
 
 #[test]
 fn planar_reports_and_bulk_depletion_depth() {
-    let dg = lambda_report(&scenario(
+    let dg = lambda_of(&scenario(
         "double-gate",
         "body_thickness_nm = 8",
         SIO2_1NM,
@@ -481,19 +526,20 @@ fn planar_reports_and_bulk_depletion_depth() {
     );
     assert!(rel(dg.lambda_numeric_nm, exact) < 5e-3);
     // Barrier for the planar short-channel estimate: positive at threshold, below V_bi.
-    let (barrier, vt, ss) = gatehold::theory::short_channel::planar_barrier_v(&scenario(
-        "double-gate",
-        "body_thickness_nm = 8",
-        SIO2_1NM,
-        "",
-    ))
+    let th = Reference::of(
+        &scenario("double-gate", "body_thickness_nm = 8", SIO2_1NM, ""),
+        &Silent,
+    )
+    .unwrap()
+    .theory
     .unwrap();
+    let (barrier, vt, ss) = (th.barrier_v, th.vt_long_v, th.ss_long_mv_per_dec);
     println!("double gate: V_bi - phi_s = {barrier:.4} V at V_t,long = {vt:.4} V, SS_long {ss:.2} mV/dec");
     assert!(barrier > 0.0 && barrier < 0.6);
     // n+ poly-like gate over a doped body (the bulk template's 4.17 eV) so that V_t lies in the sweep.
     let bulk = scenario_wf("bulk", "", SIO2_1NM, "[doping]\nchannel_cm3 = 3e18\n", 4.17);
-    let r = lambda_report(&bulk).unwrap();
-    let wdm = cf::max_depletion_width_nm(&Silicon::at(300.0), 3e18).unwrap();
+    let r = lambda_of(&bulk).unwrap();
+    let wdm = cf::max_depletion_width_nm(&Silicon::at(300.0), 3e18 * 1e-21).unwrap();
     println!("{}", render_text(&r));
     let d = r.depletion_depth_nm.unwrap();
     println!("bulk 3e18: depletion depth from the solve {d:.3} nm, W_dm formula {wdm:.3} nm");
@@ -503,7 +549,7 @@ fn planar_reports_and_bulk_depletion_depth() {
         r.depletion_depth_source,
         Some(gatehold::theory::lambda::DepthSource::LongChannelSolve)
     ));
-    let tb = lambda_report(&scenario(
+    let tb = lambda_of(&scenario(
         "thin-body",
         "body_thickness_nm = 7\nbox_thickness_nm = 20",
         SIO2_1NM,

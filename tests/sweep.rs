@@ -7,8 +7,10 @@ use std::path::{Path, PathBuf};
 use std::process::Command;
 use std::sync::OnceLock;
 
+use gatehold::evaluate::Status;
 use gatehold::io::hdf5::read_sweep;
 use gatehold::io::{AxisValue, SweepFile};
+use gatehold::progress::Silent;
 use gatehold::sweep::plan::PlanError;
 use gatehold::sweep::{self, merge, parse_plan, run_sweep, Quiet, Shard, SweepError, SweepOptions};
 
@@ -212,7 +214,7 @@ fn completed_file_meets_the_contract_and_jobs_do_not_change_results() {
             "point {}: {} vt_lin {:?}",
             row.index, row.status, row.figures[3]
         );
-        assert_eq!(row.status, "ok", "point {}", row.index);
+        assert_eq!(row.status, Status::Ok, "point {}", row.index);
         assert_eq!(row.curve.vgs_v.len(), 23, "0.04 V steps from -0.3 to 0.6");
     }
     assert_eq!(
@@ -227,8 +229,7 @@ fn completed_file_meets_the_contract_and_jobs_do_not_change_results() {
     let vt = r.figure("vt_lin_V").unwrap();
     assert!(vt[0] < vt[2] && vt[2] < vt[4], "{vt:?}");
     // The figure names equal the report's (new figures flow through generically).
-    let sol =
-        gatehold::run::run_device(&plan().points[0].scenario, &gatehold::run::Silent).unwrap();
+    let sol = gatehold::evaluate::evaluate_alone(&plan().points[0].scenario, &Silent).unwrap();
     let names: Vec<String> = sol
         .report
         .scalars()
@@ -375,14 +376,17 @@ fn failed_points_are_recorded_and_the_sweep_goes_on() {
     assert_eq!((s.failed, s.complete), (1, true), "{s:?}");
     let f = read_sweep(&out).unwrap();
     assert!(
-        f.rows[0].status.contains("extend the sweep beyond"),
+        f.rows[0]
+            .status
+            .as_str()
+            .contains("extend the sweep beyond"),
         "{}",
         f.rows[0].status
     );
     let vt = f.figures.iter().position(|n| n == "vt_lin_V").unwrap();
     assert!(f.rows[0].figures[vt].is_none());
     assert!(f.rows[1].figures[vt].is_some());
-    assert_eq!(f.rows[1].status, "ok");
+    assert_eq!(f.rows[1].status, Status::Ok);
     assert_eq!(f.rows[0].axis[0], AxisValue::Number(0.0));
 }
 
@@ -491,24 +495,32 @@ fn plots_from_a_sweep_file_and_a_device() {
     let (path, _) = reference();
     let f = read_sweep(path).unwrap();
     let out = dir().join("plots");
-    // Theory curves from the stored plan: one per series (body thickness and
-    // work function zipped), at each of the series' gate lengths, falling with L.
-    let stored = parse_plan(&f.meta.plan, dir()).unwrap();
-    let (theory, notes) = gatehold::plot::theory_for_sweep(&f, &stored);
-    assert!(notes.is_empty(), "{notes:?}");
-    assert_eq!(theory.dibl_mv_per_v.len(), 2);
-    for s in &theory.dibl_mv_per_v {
-        let l: Vec<f64> = s.points.iter().map(|p| p.0).collect();
-        assert_eq!(l, [10.0, 14.0, 20.0], "{}", s.label);
-        assert!(
-            s.points.windows(2).all(|w| w[1].1 < w[0].1),
-            "{}: {:?}",
-            s.label,
-            s.points
-        );
+    // Theory curves stored beside the solved figures: one per series (body
+    // thickness and work function zipped), at each of the series' gate
+    // lengths, falling with L.
+    let labels = gatehold::io::series_labels(&f);
+    let lg = f.figure("gate_length_nm").unwrap();
+    let th = f.figure("theory_dibl_mV_per_V").unwrap();
+    let mut series: Vec<String> = labels.clone();
+    series.dedup();
+    series.sort();
+    series.dedup();
+    assert_eq!(series.len(), 2, "{labels:?}");
+    for s in &series {
+        let pts: Vec<(f64, f64)> = (0..f.rows.len())
+            .filter(|&k| &labels[k] == s)
+            .map(|k| (lg[k], th[k]))
+            .collect();
+        let l: Vec<f64> = pts.iter().map(|p| p.0).collect();
+        assert_eq!(l, [10.0, 14.0, 20.0], "{s}");
+        assert!(pts.windows(2).all(|w| w[1].1 < w[0].1), "{s}: {pts:?}");
     }
-    assert_eq!(theory.ss_mv_per_dec.len(), 2);
-    let files = gatehold::plot::sweep_plots(&f, &out, &theory).unwrap();
+    assert!(f
+        .figure("theory_ss_mV_per_dec")
+        .unwrap()
+        .iter()
+        .all(|x| x.is_finite()));
+    let files = gatehold::plot::sweep_plots(&f, &out).unwrap();
     let names: Vec<String> = files
         .iter()
         .map(|p| p.file_name().unwrap().to_string_lossy().into_owned())
@@ -541,8 +553,10 @@ fn plots_from_a_sweep_file_and_a_device() {
         dibl_svg.contains("(theory)"),
         "theory series drawn with its legend"
     );
-    let sol =
-        gatehold::run::run_device(&plan().points[4].scenario, &gatehold::run::Silent).unwrap();
+    let sol = gatehold::evaluate::evaluate_alone(&plan().points[4].scenario, &Silent)
+        .unwrap()
+        .solution
+        .unwrap();
     let dev = gatehold::plot::device_plots(&sol, &dir().join("device_plots")).unwrap();
     assert_eq!(
         dev.len(),

@@ -3,9 +3,9 @@
 mod common;
 
 use common::*;
-use gatehold::run::{run_device, Silent};
-use gatehold::scan::scan;
-use gatehold::theory::lambda_report;
+use gatehold::evaluate::scan::scan;
+use gatehold::evaluate::Status;
+use gatehold::progress::Silent;
 
 #[test]
 fn high_k_at_equal_eot_loses_more_control() {
@@ -20,11 +20,8 @@ fn high_k_at_equal_eot_loses_more_control() {
     hik.stack[0].thickness_nm = 5.64;
     hik.stack[0].material = "eps=22".into();
     assert!((sio2.eot_nm() - hik.eot_nm()).abs() < 1e-3);
-    let (a, b) = rayon::join(
-        || run_device(&sio2, &Silent).unwrap().report,
-        || run_device(&hik, &Silent).unwrap().report,
-    );
-    let (la, lb) = (lambda_report(&sio2).unwrap(), lambda_report(&hik).unwrap());
+    let (a, b) = rayon::join(|| solve_device(&sio2).report, || solve_device(&hik).report);
+    let (la, lb) = (lambda_of(&sio2).unwrap(), lambda_of(&hik).unwrap());
     let (da, db) = (a.dibl_mv_per_v.unwrap(), b.dibl_mv_per_v.unwrap());
     println!(
         "SiO2: lambda {:.3} nm, DIBL {da:.1} mV/V, SS {:.1}; high-k: lambda {:.3} nm, DIBL {db:.1} mV/V, SS {:.1} \
@@ -66,11 +63,6 @@ fn fitted_lambda_from_double_gate_solves_matches_the_numeric_lambda() {
         fb.lambda_nm, fb.r_squared, fd.lambda_nm, fd.r_squared
     );
     assert!(
-        rel(fb.lambda_nm, num) < 0.2,
-        "barrier fit {} vs numeric {num}",
-        fb.lambda_nm
-    );
-    assert!(
         rel(fb.lambda_nm, num) < 0.05,
         "barrier fit {} vs numeric {num} (measured within 2 %)",
         fb.lambda_nm
@@ -79,6 +71,6 @@ fn fitted_lambda_from_double_gate_solves_matches_the_numeric_lambda() {
     // The DIBL fit is longer than the numeric lambda, for the reason above.
     assert!(fd.lambda_nm > num);
     for row in &r.rows {
-        assert_eq!(row.status, "ok");
+        assert_eq!(row.status, Status::Ok);
     }
 }

@@ -5,9 +5,9 @@ mod common;
 
 use common::*;
 use gatehold::discretize::{CellKind, NodeKind, Problem};
-use gatehold::long_channel::Column;
 use gatehold::mesh::Line;
 use gatehold::physics::{Silicon, EPS_SI, EPS_SIO2, Q_OVER_EPS0_V_NM};
+use gatehold::solve::UniformChannel;
 use gatehold::solve::{NewtonOptions, PoissonSolver, QuasiFermi};
 
 fn node_at(line: &Line, y: f64) -> usize {
@@ -23,7 +23,7 @@ fn node_at(line: &Line, y: f64) -> usize {
 /// surface, eps_ox (psi_g - psi_s)/t_ox = eps_si 4 V_T beta tan(beta)/t_si, fixes beta.
 /// Returns (psi0, psi_s) in V.
 fn taur(psi_g: f64, tsi: f64, tox: f64, si: &Silicon) -> (f64, f64) {
-    let vt = si.vt;
+    let vt = si.thermal_v;
     let psi0 =
         |b: f64| vt * (8.0 * vt * b * b / (Q_OVER_EPS0_V_NM / EPS_SI * si.ni * tsi * tsi)).ln();
     let psis = |b: f64| psi0(b) - 2.0 * vt * b.cos().ln();
@@ -50,7 +50,7 @@ fn taur_formula_checked_by_direct_integration() {
     for psi_g in [0.2, 0.5, 0.9] {
         let (psi0, psis) = taur(psi_g, tsi, tox, &si);
         let k = Q_OVER_EPS0_V_NM / EPS_SI * si.ni;
-        let rhs = |p: f64| k * (p / si.vt).exp();
+        let rhs = |p: f64| k * (p / si.thermal_v).exp();
         let n = 20_000;
         let h = 0.5 * tsi / n as f64;
         let (mut p, mut d) = (psi0, 0.0);
@@ -84,7 +84,7 @@ fn undoped_double_gate_matches_taur_2000() {
         (4.0, &[0.2, 0.4, 0.6, 0.9][..]),
     ] {
         let s = double_gate(30.0, tsi, tox, &format!("[mesh]\nrefinement = {r}"));
-        let mut col = Column::new(&s).unwrap();
+        let mut col = UniformChannel::column(&s).unwrap();
         let si = col.problem.silicon;
         let (jc, js) = (
             node_at(&col.problem.y, 0.5 * tsi),
@@ -143,11 +143,11 @@ workfunction_eV = 4.61
 channel_cm3 = {na}
 "#
         ));
-        let mut col = Column::new(&s).unwrap();
+        let mut col = UniformChannel::column(&s).unwrap();
         let si = col.problem.silicon;
         let p = col.problem.clone();
         let p0 = na * 1e-21;
-        let psi_bulk = -si.vt * (p0 / (2.0 * si.ni)).asinh();
+        let psi_bulk = -si.thermal_v * (p0 / (2.0 * si.ni)).asinh();
         let n0 = si.ni * si.ni / p0;
         let js = node_at(&p.y, 0.0);
         let mut seen = (false, false, false);
@@ -166,15 +166,16 @@ channel_cm3 = {na}
                     q_num += p.semi_area[k] / w * (h - n + p.net_doping[k]);
                 }
             }
-            let b = psis / si.vt;
+            let b = psis / si.thermal_v;
             let f = ((-b).exp() + b - 1.0 + n0 / p0 * (b.exp() - b - 1.0)).sqrt();
-            let ld = (EPS_SI * si.vt / (Q_OVER_EPS0_V_NM * p0)).sqrt();
-            let q_sze = -b.signum() * 2f64.sqrt() * EPS_SI / Q_OVER_EPS0_V_NM * si.vt / ld * f;
+            let ld = (EPS_SI * si.thermal_v / (Q_OVER_EPS0_V_NM * p0)).sqrt();
+            let q_sze =
+                -b.signum() * 2f64.sqrt() * EPS_SI / Q_OVER_EPS0_V_NM * si.thermal_v / ld * f;
             println!("V_G {vg:5.2}: psi_s {psis:7.4} V  Q/q numeric {q_num:.6e}  Sze {q_sze:.6e} nm^-2  rel {:.2e}", rel(q_num, q_sze));
             worst = worst.max(rel(q_num, q_sze));
             seen.0 |= psis < 0.0;
-            seen.1 |= psis > 0.0 && psis < 2.0 * si.vt * (p0 / si.ni).ln();
-            seen.2 |= psis > 2.0 * si.vt * (p0 / si.ni).ln();
+            seen.1 |= psis > 0.0 && psis < 2.0 * si.thermal_v * (p0 / si.ni).ln();
+            seen.2 |= psis > 2.0 * si.thermal_v * (p0 / si.ni).ln();
         }
         assert!(worst < 1e-3, "charge off by {:.3} %", 100.0 * worst);
         if r > 1.0 {
@@ -247,9 +248,14 @@ fn manufactured_error(n: usize) -> f64 {
     let mut psi = vec![0.0; p.node_count()];
     let qf = QuasiFermi::uniform(p.nx, 0.0, 0.0);
     let rep = solver
-        .solve(&p, &mut psi, &qf, &NewtonOptions::for_vt(si.vt))
+        .solve(
+            &p,
+            &mut psi,
+            &qf,
+            &NewtonOptions::for_thermal_voltage(si.thermal_v),
+        )
         .unwrap();
-    assert!(rep.converged, "{rep:?}");
+    assert!(rep.converged(), "{rep:?}");
     let mut err: f64 = 0.0;
     for j in 0..p.ny {
         for i in 0..p.nx {

@@ -10,7 +10,7 @@ pub mod template;
 
 pub use scenario::*;
 
-use crate::physics::{dielectric_permittivity, KNOWN_DIELECTRICS};
+use crate::physics::{dielectric_permittivity, CM2_TO_NM2, KNOWN_DIELECTRICS, PER_CM3_TO_PER_NM3};
 use toml::Value;
 
 /// What went wrong with a device file.
@@ -288,6 +288,41 @@ fn dielectric(key: &str, name: &str) -> Result<f64, DeviceError> {
             ),
         )
     })
+}
+
+/// The rules on the gate length (shared by validation and
+/// [`Scenario::with_gate_length`]): positive, at least two mesh cells, at
+/// most 100 um, and long enough that overlapping junctions do not meet.
+pub(crate) fn check_gate_length(
+    gate_length_nm: f64,
+    mesh: &MeshSettings,
+    junction_offset_nm: f64,
+) -> Result<(), DeviceError> {
+    let key = "geometry.gate_length_nm";
+    if !(gate_length_nm.is_finite() && gate_length_nm > 0.0) {
+        return Err(invalid(key, gate_length_nm, "must be greater than zero"));
+    }
+    if gate_length_nm < 2.0 * mesh.max_step_nm / mesh.refinement {
+        return Err(invalid(
+            key,
+            gate_length_nm,
+            format!(
+                "shorter than 2 mesh cells of mesh.max_step_nm = {}",
+                mesh.max_step_nm
+            ),
+        ));
+    }
+    if gate_length_nm > 100_000.0 {
+        return Err(invalid(key, gate_length_nm, "longer than 100 um"));
+    }
+    if junction_offset_nm >= 0.5 * gate_length_nm {
+        return Err(invalid(
+            "doping.junction_offset_nm",
+            junction_offset_nm,
+            format!("overlaps of both junctions would meet under a {gate_length_nm} nm gate"),
+        ));
+    }
+    Ok(())
 }
 
 /// Reads a device file from disk.
@@ -612,13 +647,6 @@ pub fn scenario_from_table(root: &toml::Table) -> Result<Scenario, DeviceError> 
         ));
     }
     let junction_offset_nm = r.number("doping.junction_offset_nm")?.unwrap_or(0.0);
-    if junction_offset_nm >= 0.5 * gate_length_nm {
-        return Err(invalid(
-            "doping.junction_offset_nm",
-            junction_offset_nm,
-            format!("overlaps of both junctions would meet under a {gate_length_nm} nm gate"),
-        ));
-    }
     if -junction_offset_nm >= geometry.source_drain_length_nm {
         return Err(invalid(
             "doping.junction_offset_nm",
@@ -637,8 +665,8 @@ pub fn scenario_from_table(root: &toml::Table) -> Result<Scenario, DeviceError> 
         ));
     }
     let doping = Doping {
-        channel_cm3,
-        source_drain_cm3,
+        channel_per_nm3: channel_cm3 * PER_CM3_TO_PER_NM3,
+        source_drain_per_nm3: source_drain_cm3 * PER_CM3_TO_PER_NM3,
         junction_offset_nm,
         junction_gradient_nm_per_decade,
     };
@@ -736,13 +764,14 @@ pub fn scenario_from_table(root: &toml::Table) -> Result<Scenario, DeviceError> 
             "extraction.current_criterion_A",
             r.number("extraction.current_criterion_A")?.unwrap_or(1e-7),
         )?,
-        mobility_cm2_per_vs: in_range(
-            "extraction.mobility_cm2_per_Vs",
-            r.number("extraction.mobility_cm2_per_Vs")?.unwrap_or(200.0),
-            1.0,
-            1e5,
-            "cm^2/Vs",
-        )?,
+        mobility_nm2_per_vs: CM2_TO_NM2
+            * in_range(
+                "extraction.mobility_cm2_per_Vs",
+                r.number("extraction.mobility_cm2_per_Vs")?.unwrap_or(200.0),
+                1.0,
+                1e5,
+                "cm^2/Vs",
+            )?,
     };
     let mesh = MeshSettings {
         max_step_nm: in_range(
@@ -760,23 +789,7 @@ pub fn scenario_from_table(root: &toml::Table) -> Result<Scenario, DeviceError> 
             "",
         )?,
     };
-    if gate_length_nm < 2.0 * mesh.max_step_nm / mesh.refinement {
-        return Err(invalid(
-            "geometry.gate_length_nm",
-            gate_length_nm,
-            format!(
-                "shorter than 2 mesh cells of mesh.max_step_nm = {}",
-                mesh.max_step_nm
-            ),
-        ));
-    }
-    if gate_length_nm > 100_000.0 {
-        return Err(invalid(
-            "geometry.gate_length_nm",
-            gate_length_nm,
-            "longer than 100 um",
-        ));
-    }
+    check_gate_length(gate_length_nm, &mesh, junction_offset_nm)?;
     if arch != Architecture::Bulk && body_thickness_nm < 1.0 {
         return Err(invalid(
             "geometry.body_thickness_nm",
@@ -883,7 +896,7 @@ workfunction_eV = 4.6
         .unwrap();
         assert_eq!(s.bias.vds_lin_v, -0.05);
         assert_eq!(s.bias.vds_sat_v, -0.8);
-        assert_eq!(s.doping.channel_cm3, 0.0);
+        assert_eq!(s.doping.channel_per_nm3, 0.0);
     }
 
     #[test]

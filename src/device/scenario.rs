@@ -1,9 +1,14 @@
 //! The checked, unit-converted description of one device: what the solver sees.
+//!
+//! Internal units (those of [`crate::physics`]): lengths nm, potentials V,
+//! energies eV, densities nm^-3, mobility nm^2/(V s), currents A. The device
+//! file's cm^-3 and cm^2/(V s) are converted once, in validation; nothing
+//! downstream converts them again.
 
 use serde::Serialize;
 
-/// Device architecture (the contract's names).
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize)]
+/// Device architecture (serialised as the contract's names).
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
 pub enum Architecture {
     Bulk,
     ThinBody,
@@ -59,8 +64,8 @@ impl std::fmt::Display for Architecture {
     }
 }
 
-/// Channel polarity.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+/// Channel polarity (serialised as "n" or "p").
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
 pub enum Polarity {
     N,
     P,
@@ -80,6 +85,24 @@ impl Polarity {
             Polarity::N => "n",
             Polarity::P => "p",
         }
+    }
+}
+
+impl std::fmt::Display for Polarity {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        f.write_str(self.name())
+    }
+}
+
+impl Serialize for Architecture {
+    fn serialize<S: serde::Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {
+        s.serialize_str(self.name())
+    }
+}
+
+impl Serialize for Polarity {
+    fn serialize<S: serde::Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {
+        s.serialize_str(self.name())
     }
 }
 
@@ -121,13 +144,13 @@ pub struct Gate {
     pub back_bias_v: f64,
 }
 
-/// Doping, cm^-3 (converted to nm^-3 where the mesh is built).
+/// Doping in internal units (the file's cm^-3 converted once, at validation).
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct Doping {
-    /// Channel dopant density (acceptors for n, donors for p), cm^-3.
-    pub channel_cm3: f64,
-    /// Source/drain dopant density, cm^-3.
-    pub source_drain_cm3: f64,
+    /// Channel dopant density (acceptors for n, donors for p), nm^-3.
+    pub channel_per_nm3: f64,
+    /// Source/drain dopant density, nm^-3.
+    pub source_drain_per_nm3: f64,
     /// > 0: junctions extend under the gate.
     pub junction_offset_nm: f64,
     /// 0: abrupt; else a decade per this length.
@@ -160,7 +183,8 @@ impl Bias {
 pub struct Extraction {
     /// I_cc in V_t: I_D = I_cc W / L_g, A.
     pub current_criterion_a: f64,
-    pub mobility_cm2_per_vs: f64,
+    /// Constant mobility, nm^2/(V s) (the file's cm^2/(V s) converted at validation).
+    pub mobility_nm2_per_vs: f64,
 }
 
 /// Mesh settings.
@@ -215,32 +239,24 @@ impl Scenario {
     /// The same device at another gate length, with the length-dependent
     /// rules of the device file re-checked.
     pub fn with_gate_length(&self, gate_length_nm: f64) -> Result<Scenario, super::DeviceError> {
-        let key = "geometry.gate_length_nm";
-        let bad = |reason: String| super::DeviceError::Invalid {
-            key: key.into(),
-            value: gate_length_nm.to_string(),
-            reason,
-        };
-        if !(gate_length_nm.is_finite() && gate_length_nm > 0.0) {
-            return Err(bad("must be greater than zero".into()));
-        }
-        if gate_length_nm < 2.0 * self.mesh.max_step_nm / self.mesh.refinement {
-            return Err(bad(format!(
-                "shorter than 2 mesh cells of mesh.max_step_nm = {}",
-                self.mesh.max_step_nm
-            )));
-        }
-        if gate_length_nm > 100_000.0 {
-            return Err(bad("longer than 100 um".into()));
-        }
-        if self.doping.junction_offset_nm >= 0.5 * gate_length_nm {
-            return Err(bad(format!(
-                "doping.junction_offset_nm = {} overlaps of both junctions would meet",
-                self.doping.junction_offset_nm
-            )));
-        }
+        super::check_gate_length(gate_length_nm, &self.mesh, self.doping.junction_offset_nm)?;
         let mut s = self.clone();
         s.geometry.gate_length_nm = gate_length_nm;
         Ok(s)
+    }
+
+    /// True when `other` has the same cross-section as `self`: everything but
+    /// the gate length, the name and the validation warnings is equal, so the
+    /// length-independent results (long-channel reference, numeric natural
+    /// length, fin cross-section) of one serve the other.
+    pub fn same_cross_section(&self, other: &Scenario) -> bool {
+        let blank = |s: &Scenario| {
+            let mut c = s.clone();
+            c.name.clear();
+            c.warnings.clear();
+            c.geometry.gate_length_nm = 0.0;
+            c
+        };
+        blank(self) == blank(other)
     }
 }

@@ -42,8 +42,8 @@ pub fn write_points<W: Write>(f: &SweepFile, mut w: W) -> std::io::Result<()> {
                 .iter()
                 .map(|v| v.map(|x| format!("{x:e}")).unwrap_or_default()),
         );
-        cells.push(quote(&r.status));
-        cells.push(r.meets_criteria.to_string());
+        cells.push(quote(r.status.as_str()));
+        cells.push(r.meets_criteria.code().to_string());
         writeln!(w, "{}", cells.join(","))?;
     }
     Ok(())

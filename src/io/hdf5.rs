@@ -13,6 +13,9 @@ use std::path::{Path, PathBuf};
 
 use hdf5_pure::{AttrValue, File, FileBuilder, MaxExtent};
 
+use crate::device::Polarity;
+use crate::evaluate::{CriteriaVerdict, Status};
+
 use super::{
     ascii_fit, units_of, AxisColumn, AxisValue, CurveData, IoError, MapData, PointRow, SweepFile,
     SweepMeta, STATUS_WIDTH,
@@ -133,7 +136,7 @@ pub fn to_bytes(f: &SweepFile) -> Result<Vec<u8>, String> {
     let status: Vec<String> = f
         .rows
         .iter()
-        .map(|r| ascii_fit(&r.status, STATUS_WIDTH))
+        .map(|r| ascii_fit(r.status.as_str(), STATUS_WIDTH))
         .collect();
     cols.push((
         "status".into(),
@@ -145,7 +148,7 @@ pub fn to_bytes(f: &SweepFile) -> Result<Vec<u8>, String> {
         "meets_criteria".into(),
         "1",
         "bookkeeping",
-        Col::I64(f.rows.iter().map(|r| r.meets_criteria).collect()),
+        Col::I64(f.rows.iter().map(|r| r.meets_criteria.code()).collect()),
     ));
     cols.push((
         "newton_steps_total".into(),
@@ -297,7 +300,7 @@ fn write_map(g: &mut hdf5_pure::GroupBuilder, m: &MapData) {
         .with_shape(&[ny - 1, nx - 1])
         .set_attr("units", vs("1"));
     g.set_attr("eg_eV", AttrValue::F64(m.eg_ev));
-    g.set_attr("carrier_sign", AttrValue::F64(m.carrier_sign));
+    g.set_attr("carrier_sign", AttrValue::F64(m.polarity.sign()));
     g.set_attr("gate_start_nm", AttrValue::F64(m.gate_start_nm));
     g.set_attr("gate_end_nm", AttrValue::F64(m.gate_end_nm));
     g.set_attr(
@@ -471,8 +474,8 @@ pub fn read_sweep(path: &Path) -> Result<SweepFile, IoError> {
             index: idx,
             axis: axis_vals.iter().map(|v| v[k].clone()).collect(),
             figures: fig_vals.iter().map(|v| finite(v[k])).collect(),
-            status: status[k].clone(),
-            meets_criteria: meets[k],
+            status: Status::parse(&status[k]),
+            meets_criteria: CriteriaVerdict::from_code(meets[k]),
             newton_steps: steps[k],
             vds_v: (vl[k], vsat[k]),
             elapsed_s: elapsed[k],
@@ -515,7 +518,11 @@ fn read_map(file: &File, path: &Path, g: &str) -> Result<MapData, IoError> {
             .map_err(|e| h5err(path, &format!("{g}/material_code"), e))?,
         eps_r: f("eps_r")?,
         eg_ev: a("eg_eV"),
-        carrier_sign: a("carrier_sign"),
+        polarity: if a("carrier_sign") < 0.0 {
+            Polarity::P
+        } else {
+            Polarity::N
+        },
         gate_start_nm: a("gate_start_nm"),
         gate_end_nm: a("gate_end_nm"),
         leakiest_depth_lin_nm: finite(a("leakiest_depth_lin_nm")),

@@ -7,8 +7,9 @@
 pub mod csv;
 pub mod hdf5;
 
+use crate::device::Polarity;
 use crate::discretize::CellKind;
-use crate::run::DeviceSolution;
+use crate::evaluate::{CriteriaVerdict, DeviceSolution, Status};
 
 /// Width in bytes of the fixed-width `status` strings (longer reasons are cut).
 pub const STATUS_WIDTH: usize = 256;
@@ -105,9 +106,10 @@ pub struct MapData {
     pub material: Vec<i64>,
     /// Relative permittivity per cell (0 in metal).
     pub eps_r: Vec<f64>,
-    /// Silicon band gap, eV, and carrier sign (+1 electrons, -1 holes): band edge = eg/2 - sign psi.
+    /// Silicon band gap, eV, and the channel polarity: band edge = eg/2 - s psi
+    /// (s = +1 electrons, -1 holes; stored as the attribute `carrier_sign`).
     pub eg_ev: f64,
-    pub carrier_sign: f64,
+    pub polarity: Polarity,
     pub gate_start_nm: f64,
     pub gate_end_nm: f64,
     /// Depth of the leakiest row at each drain bias, nm.
@@ -143,7 +145,7 @@ impl MapData {
             material,
             eps_r: p.cells.iter().map(|c| c.eps()).collect(),
             eg_ev: p.silicon.eg_ev,
-            carrier_sign: sol.structure.doping.sign,
+            polarity: sol.structure.doping.polarity,
             gate_start_nm: sol.structure.gate_start_nm,
             gate_end_nm: sol.structure.gate_end_nm,
             leakiest_depth_lin_nm: sol.barrier_lin.map(|b| b.depth_nm),
@@ -177,7 +179,7 @@ impl MapData {
             .map(|i| {
                 (
                     self.x_nm[i],
-                    0.5 * self.eg_ev - self.carrier_sign * psi[i + j * nx],
+                    0.5 * self.eg_ev - self.polarity.sign() * psi[i + j * nx],
                 )
             })
             .collect()
@@ -194,9 +196,9 @@ pub struct PointRow {
     /// One value per [`SweepFile::figures`] name; None is stored as NaN.
     pub figures: Vec<Option<f64>>,
     /// "ok" or why the point failed / which figures are missing.
-    pub status: String,
-    /// 1 all `[criteria]` met, 0 one failed, -1 unknown or no criteria.
-    pub meets_criteria: i64,
+    pub status: Status,
+    /// The `[criteria]` verdict (stored as 1, 0, -1).
+    pub meets_criteria: CriteriaVerdict,
     pub newton_steps: i64,
     /// Drain biases (lin, sat) of this point, V.
     pub vds_v: (f64, f64),
@@ -211,7 +213,7 @@ pub struct PointRow {
 pub struct SweepFile {
     pub meta: SweepMeta,
     pub axes: Vec<AxisColumn>,
-    /// Names (with units) of the scalar figures, as `DeviceReport::scalars()`.
+    /// Names (with units) of the scalar figures, as `DeviceReport::scalar_names()`.
     pub figures: Vec<String>,
     pub rows: Vec<PointRow>,
 }
@@ -239,6 +241,73 @@ impl SweepFile {
                 .collect(),
         )
     }
+}
+
+/// The series label of each row of a sweep file in the figures against L_g:
+/// the values of every axis other than `geometry.gate_length_nm` ("solved"
+/// when there is none). When one text axis alone tells the series apart (e.g.
+/// `architecture` zipped with the doping and work function that go with it),
+/// that axis' value is the whole label. Theory series named with these labels
+/// take the colour of the solved series.
+pub fn series_labels(f: &SweepFile) -> Vec<String> {
+    let others: Vec<usize> = f
+        .axes
+        .iter()
+        .enumerate()
+        .filter(|(_, a)| a.key != "geometry.gate_length_nm")
+        .map(|(k, _)| k)
+        .collect();
+    if others.is_empty() {
+        return vec!["solved".into(); f.rows.len()];
+    }
+    let full: Vec<String> = f
+        .rows
+        .iter()
+        .map(|r| {
+            others
+                .iter()
+                .map(|&a| {
+                    let key = f.axes[a].key.rsplit('.').next().unwrap_or("");
+                    match &r.axis[a] {
+                        AxisValue::Text(s) => s.clone(),
+                        AxisValue::Number(x) => format!("{key}={x}"),
+                    }
+                })
+                .collect::<Vec<_>>()
+                .join(", ")
+        })
+        .collect();
+    // A text axis that maps one-to-one onto the full labels names the series alone.
+    let text_of = |k: usize, a: usize| match &f.rows[k].axis[a] {
+        AxisValue::Text(s) => Some(s.clone()),
+        AxisValue::Number(_) => None,
+    };
+    let one_to_one = |a: usize| {
+        let mut pairs = std::collections::BTreeMap::new();
+        let mut back = std::collections::BTreeMap::new();
+        for (k, l) in full.iter().enumerate() {
+            let Some(t) = text_of(k, a) else {
+                return false;
+            };
+            if pairs.insert(t.clone(), l).is_some_and(|p| p != l)
+                || back.insert(l, t.clone()).is_some_and(|b| b != t)
+            {
+                return false;
+            }
+        }
+        true
+    };
+    if others.len() > 1 {
+        if let Some(&a) = others
+            .iter()
+            .find(|&&a| !f.axes[a].numeric && one_to_one(a))
+        {
+            return (0..f.rows.len())
+                .map(|k| text_of(k, a).unwrap_or_default())
+                .collect();
+        }
+    }
+    full
 }
 
 /// Units of a column from its name's suffix (the project's naming rule); "1" if dimensionless.

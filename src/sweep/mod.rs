@@ -1,7 +1,8 @@
 //! Geometry sweeps: plans ([`plan`]), parallel runs into HDF5 checkpoints,
 //! resume, shards and merge.
 //!
-//! Entry points: [`plan::load_plan`], [`run_sweep`], [`merge`].
+//! Entry points: [`plan::load_plan`], [`run_sweep`], [`merge`], and
+//! [`shortest::per_series`] for the shortest compliant length of each series.
 //!
 //! - Points run in parallel on a rayon pool of `jobs` threads; each point is
 //!   independent (its own mesh and solver), so results do not depend on the
@@ -21,6 +22,7 @@
 //!   files into the file an unsharded run would have written.
 
 pub mod plan;
+pub mod shortest;
 
 use std::path::Path;
 use std::sync::atomic::{AtomicBool, AtomicUsize, Ordering};
@@ -29,33 +31,12 @@ use std::time::{Instant, SystemTime};
 
 use rayon::prelude::*;
 
+use crate::evaluate::{evaluate, DeviceReport, Reference, Status, CAUTION};
 use crate::io::hdf5::{read_sweep, write_sweep};
 use crate::io::{rfc3339, AxisColumn, CurveData, IoError, MapData, PointRow, SweepFile, SweepMeta};
-use crate::run::{evaluate, Silent, CAUTION};
+use crate::progress::Silent;
 
 pub use plan::{load_plan, parse_plan, Plan, PlanError};
-
-/// Scalar figure names used when no point produced a report (all failed):
-/// must equal the names of `DeviceReport::scalars()` (a test checks).
-pub const FALLBACK_FIGURES: &[&str] = &[
-    "gate_length_nm",
-    "l_met_nm",
-    "eot_nm",
-    "vt_lin_V",
-    "vt_sat_V",
-    "ss_lin_mV_per_dec",
-    "ss_sat_mV_per_dec",
-    "dibl_mV_per_V",
-    "dibl_long_floor_mV_per_V",
-    "vt_long_V",
-    "ss_long_mV_per_dec",
-    "vt_rolloff_mV",
-    "barrier_lin_eV",
-    "barrier_sat_eV",
-    "barrier_lowering_meV",
-    "leakiest_depth_nm",
-    "natural_length_nm",
-];
 
 /// The model statement stored in every sweep file.
 pub fn model_summary() -> String {
@@ -170,7 +151,7 @@ pub trait SweepObserver: Sync {
     /// Before solving: points this run will compute, of `in_shard`, with `done` already in the file.
     fn started(&self, _to_run: usize, _in_shard: usize, _done: usize) {}
     /// A point finished (on disk at once, or with the next checkpoint batch).
-    fn point_done(&self, _index: usize, _status: &str) {}
+    fn point_done(&self, _index: usize, _status: &Status) {}
 }
 
 /// Ignores progress.
@@ -193,12 +174,72 @@ pub struct SweepSummary {
     pub elapsed_s: f64,
 }
 
-/// Solves one plan point into a row (never fails: a failure is the row's
+/// The length-independent reference of each point's cross-section, solved
+/// once per distinct cross-section among `points` (in parallel); `Err` holds
+/// why a reference could not be built.
+pub struct References {
+    /// (a scenario of the cross-section, its reference).
+    distinct: Vec<(usize, Result<Reference, String>)>,
+    /// For each plan point, the index into `distinct` (None: not needed by this run).
+    of_point: Vec<Option<usize>>,
+}
+
+impl References {
+    /// Solves the references needed by the plan points `todo`.
+    pub fn solve(plan: &Plan, todo: &[usize]) -> References {
+        let mut firsts: Vec<usize> = Vec::new();
+        let mut of_point = vec![None; plan.points.len()];
+        for &i in todo {
+            let s = &plan.points[i].scenario;
+            let k = match firsts
+                .iter()
+                .position(|&f| plan.points[f].scenario.same_cross_section(s))
+            {
+                Some(k) => k,
+                None => {
+                    firsts.push(i);
+                    firsts.len() - 1
+                }
+            };
+            of_point[i] = Some(k);
+        }
+        let distinct = firsts
+            .par_iter()
+            .with_max_len(1)
+            .map(|&f| {
+                let r = Reference::of(&plan.points[f].scenario, &Silent).map_err(|e| e.to_string());
+                (f, r)
+            })
+            .collect();
+        References { distinct, of_point }
+    }
+
+    /// Number of distinct cross-sections solved.
+    pub fn len(&self) -> usize {
+        self.distinct.len()
+    }
+
+    pub fn is_empty(&self) -> bool {
+        self.distinct.is_empty()
+    }
+
+    /// The reference of plan point `index`.
+    pub fn of(&self, index: usize) -> Option<&Result<Reference, String>> {
+        self.of_point
+            .get(index)
+            .copied()
+            .flatten()
+            .map(|k| &self.distinct[k].1)
+    }
+}
+
+/// Evaluates one plan point into a row (never fails: a failure is the row's
 /// status). The row's `figures` are left empty; the named figures come beside
 /// it (empty for a failed point) and [`place_row`] puts them in file order.
-pub fn solve_point(
+pub fn run_plan_point(
     plan: &Plan,
     index: usize,
+    reference: &Result<Reference, String>,
     with_map: bool,
 ) -> (PointRow, Vec<(String, Option<f64>)>) {
     let p = &plan.points[index];
@@ -207,8 +248,8 @@ pub fn solve_point(
         index,
         axis: p.values.clone(),
         figures: Vec::new(),
-        status: String::new(),
-        meets_criteria: -1,
+        status: Status::Ok,
+        meets_criteria: crate::evaluate::CriteriaVerdict::Unknown,
         newton_steps: 0,
         vds_v: (p.scenario.bias.vds_lin_v, p.scenario.bias.vds_sat_v),
         elapsed_s: 0.0,
@@ -216,7 +257,11 @@ pub fn solve_point(
         map: None,
     };
     let mut named = Vec::new();
-    match evaluate(&p.scenario, &Silent) {
+    let result = match reference {
+        Ok(r) => evaluate(&p.scenario, r, &Silent).map_err(|e| e.to_string()),
+        Err(e) => Err(e.clone()),
+    };
+    match result {
         Ok(ev) => {
             let r = &ev.report;
             named = r
@@ -224,13 +269,7 @@ pub fn solve_point(
                 .into_iter()
                 .map(|(k, v)| (k.to_string(), v))
                 .collect();
-            row.status = if r.problems.is_empty() && r.converged {
-                "ok".into()
-            } else if r.problems.is_empty() {
-                "some bias points did not converge".into()
-            } else {
-                r.problems.join("; ")
-            };
+            row.status = r.status();
             row.meets_criteria = plan.criteria.judge(
                 r.dibl_mv_per_v,
                 r.ss_lin_mv_per_dec,
@@ -248,7 +287,7 @@ pub fn solve_point(
                 row.map = ev.solution.as_ref().map(MapData::of);
             }
         }
-        Err(e) => row.status = format!("failed: {e}"),
+        Err(e) => row.status = Status::Failed(format!("failed: {e}")),
     }
     row.elapsed_s = t.elapsed().as_secs_f64();
     (row, named)
@@ -279,7 +318,9 @@ pub fn place_row(file: &mut SweepFile, mut row: PointRow, named: &[(String, Opti
     }
 }
 
-fn new_file(plan: &Plan, opts: &SweepOptions) -> SweepFile {
+/// An empty sweep file for `plan` and this run's shard: metadata, axis columns, and
+/// the figure columns of [`DeviceReport::scalar_names`].
+pub fn new_file(plan: &Plan, opts: &SweepOptions) -> SweepFile {
     let now = rfc3339(SystemTime::now());
     SweepFile {
         meta: SweepMeta {
@@ -302,7 +343,7 @@ fn new_file(plan: &Plan, opts: &SweepOptions) -> SweepFile {
                 numeric: k.numeric,
             })
             .collect(),
-        figures: FALLBACK_FIGURES.iter().map(|s| s.to_string()).collect(),
+        figures: DeviceReport::scalar_names().map(str::to_string).collect(),
         rows: Vec::new(),
     }
 }
@@ -358,6 +399,7 @@ pub fn run_sweep(
         .num_threads(opts.jobs)
         .build()
         .map_err(|e| SweepError::Pool(e.to_string()))?;
+    let references = pool.install(|| References::solve(plan, &todo));
     let stop = AtomicBool::new(false);
     let started = AtomicUsize::new(0);
     let limit = opts.stop_after.unwrap_or(usize::MAX);
@@ -374,7 +416,10 @@ pub fn run_sweep(
                     {
                         return;
                     }
-                    let _ = tx.send(solve_point(plan, i, plan.maps.contains(&i)));
+                    let reference = references
+                        .of(i)
+                        .expect("every point to run has a reference");
+                    let _ = tx.send(run_plan_point(plan, i, reference, plan.maps.contains(&i)));
                 });
             });
         });
@@ -418,7 +463,7 @@ pub fn run_sweep(
         in_shard,
         resumed,
         computed,
-        failed: file.rows.iter().filter(|r| r.status != "ok").count(),
+        failed: file.rows.iter().filter(|r| !r.status.is_ok()).count(),
         complete,
         elapsed_s: t0.elapsed().as_secs_f64(),
     })

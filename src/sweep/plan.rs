@@ -100,51 +100,7 @@ impl Axis {
     }
 }
 
-/// Pass/fail thresholds from `[criteria]` (each optional).
-#[derive(Debug, Clone, Default, PartialEq)]
-pub struct Criteria {
-    pub dibl_max_mv_per_v: Option<f64>,
-    pub ss_max_mv_per_dec: Option<f64>,
-    /// Bound on |V_t roll-off|, mV.
-    pub vt_rolloff_max_mv: Option<f64>,
-}
-
-impl Criteria {
-    pub fn is_empty(&self) -> bool {
-        *self == Criteria::default()
-    }
-
-    /// 1: every criterion met; 0: one failed; -1: a needed figure is missing
-    /// (or no criteria were given).
-    pub fn judge(
-        &self,
-        dibl: Option<f64>,
-        ss_lin: Option<f64>,
-        ss_sat: Option<f64>,
-        rolloff: Option<f64>,
-    ) -> i64 {
-        if self.is_empty() {
-            return -1;
-        }
-        let mut checks: Vec<Option<bool>> = Vec::new();
-        if let Some(m) = self.dibl_max_mv_per_v {
-            checks.push(dibl.map(|d| d <= m));
-        }
-        if let Some(m) = self.ss_max_mv_per_dec {
-            checks.push(ss_lin.zip(ss_sat).map(|(a, b)| a.max(b) <= m));
-        }
-        if let Some(m) = self.vt_rolloff_max_mv {
-            checks.push(rolloff.map(|r| r.abs() <= m));
-        }
-        if checks.contains(&Some(false)) {
-            0
-        } else if checks.iter().all(|c| c.is_some()) {
-            1
-        } else {
-            -1
-        }
-    }
-}
+pub use crate::evaluate::{Criteria, CriteriaVerdict};
 
 /// One point of the product with its validated device.
 #[derive(Debug, Clone)]
@@ -202,8 +158,23 @@ pub fn load_plan(path: &Path) -> Result<Plan, PlanError> {
     parse_plan(&text, &dir)
 }
 
+/// Reads a plan's `base` device by the path the plan gives: the file's text,
+/// or (the file's full name, why it cannot be read).
+pub type BaseReader<'a> = dyn Fn(&str) -> Result<String, (String, String)> + 'a;
+
 /// Parses and validates plan text; a `base` path is resolved relative to `base_dir`.
 pub fn parse_plan(text: &str, base_dir: &Path) -> Result<Plan, PlanError> {
+    parse_plan_with(text, &|p: &str| {
+        let path = base_dir.join(p);
+        std::fs::read_to_string(&path).map_err(|e| (path.display().to_string(), e.to_string()))
+    })
+}
+
+/// Parses and validates plan text, reading a `base` device path through
+/// `read_base` (which returns the file's text, or its full name and why it
+/// cannot be read): plans whose devices are files elsewhere than on disk,
+/// such as the built-in demo, use the ordinary parser.
+pub fn parse_plan_with(text: &str, read_base: &BaseReader<'_>) -> Result<Plan, PlanError> {
     let root: toml::Table = text
         .parse()
         .map_err(|e: toml::de::Error| PlanError::Syntax(e.to_string()))?;
@@ -224,16 +195,12 @@ pub fn parse_plan(text: &str, base_dir: &Path) -> Result<Plan, PlanError> {
             ))
         }
         Some(Value::String(p)) => {
-            let path = base_dir.join(p);
-            let t = std::fs::read_to_string(&path).map_err(|e| PlanError::Base {
-                path: path.display().to_string(),
-                error: DeviceError::Io {
-                    path: path.display().to_string(),
-                    reason: e.to_string(),
-                },
+            let t = read_base(p).map_err(|(path, reason)| PlanError::Base {
+                path: path.clone(),
+                error: DeviceError::Io { path, reason },
             })?;
             parse_table(&t).map_err(|error| PlanError::Base {
-                path: path.display().to_string(),
+                path: p.clone(),
                 error,
             })?
         }

@@ -5,7 +5,9 @@
 //! Convention: the short-channel perturbation decays as exp(-x/lambda).
 
 use crate::device::{Architecture, Scenario};
-use crate::physics::{Silicon, EPS_SI, EPS_SIO2, PER_CM3_TO_PER_NM3, Q_OVER_EPS0_V_NM};
+use std::collections::BTreeMap;
+
+use crate::physics::{Silicon, EPS_SI, EPS_SIO2, Q_OVER_EPS0_V_NM};
 
 /// Single gate, thin body on a thick buried oxide (Yan, Ourmazd and Lee,
 /// IEEE Trans. Electron Devices 39(7), 1704, 1992): sqrt((eps_Si/eps_ox) t_Si t_ox).
@@ -27,34 +29,88 @@ pub fn multi_gate_colinge(t_si: f64, eot: f64, n_gates: f64) -> f64 {
 
 /// Maximum depletion width of a bulk body, nm (common practice):
 /// W_dm = sqrt(4 eps_Si V_T ln(N_A/n_i) / (q N_A)).
-pub fn max_depletion_width_nm(si: &Silicon, channel_cm3: f64) -> Option<f64> {
-    let na = channel_cm3 * PER_CM3_TO_PER_NM3;
+/// `na` is the channel doping, nm^-3.
+pub fn max_depletion_width_nm(si: &Silicon, na: f64) -> Option<f64> {
     if na <= si.ni {
         return None;
     }
-    Some((4.0 * EPS_SI * si.vt * (na / si.ni).ln() / (Q_OVER_EPS0_V_NM * na)).sqrt())
+    Some((4.0 * EPS_SI * si.thermal_v * (na / si.ni).ln() / (Q_OVER_EPS0_V_NM * na)).sqrt())
 }
 
-/// The architecture's headline closed form: (formula name, lambda in nm).
+/// Name of the bulk headline closed form (Yan 1992 at the maximum depletion width).
+const HEADLINE_BULK: &str = "yan-1992-bulk-depletion";
+
+/// The architecture's headline closed form: (formula name, lambda in nm),
+/// taken from [`table`].
 pub fn natural_length(s: &Scenario) -> Option<(&'static str, f64)> {
+    let name = match s.architecture {
+        Architecture::DoubleGate => "suzuki-1993-double-gate",
+        Architecture::ThinBody => "yan-1992-single-gate",
+        Architecture::Bulk => HEADLINE_BULK,
+        Architecture::TriGate => "colinge-2004-n3",
+        Architecture::GateAllAround => "colinge-2004-n4",
+        Architecture::CappedFin => "colinge-2004-n2",
+    };
+    table(s, None).get(name).map(|&v| (name, v))
+}
+
+/// Every applicable closed form for the scenario, nm, keyed by name (the one
+/// table of closed forms; [`natural_length`] picks the headline from it). All are
+/// EOT-based (the stack enters as SiO2 of thickness EOT, eps_ox = 3.9): they
+/// cannot see fringing through a physically thick high-k layer, nor the
+/// buried-oxide path. `depth_nm` is the bulk depletion depth used.
+pub fn table(s: &Scenario, depth_nm: Option<f64>) -> BTreeMap<String, f64> {
     let eot = s.eot_nm();
     let t = s.geometry.body_thickness_nm;
-    match s.architecture {
-        Architecture::DoubleGate => Some(("suzuki-1993-double-gate", double_gate_suzuki(t, eot))),
-        Architecture::ThinBody => Some(("yan-1992-single-gate", single_gate_yan(t, eot))),
-        Architecture::Bulk => {
-            let si = Silicon::at(s.temperature_k);
-            // A bulk body's depth of gate control is the maximum depletion width.
-            let wdm = max_depletion_width_nm(&si, s.doping.channel_cm3)?;
-            Some((
-                "yan-1992-bulk-depletion",
-                single_gate_yan(wdm.min(s.geometry.substrate_depth_nm), eot),
-            ))
+    let mut m = BTreeMap::new();
+    let mut put = |k: &str, v: Option<f64>| {
+        if let Some(v) = v.filter(|v| v.is_finite() && *v > 0.0) {
+            m.insert(k.to_string(), v);
         }
-        Architecture::TriGate => Some(("colinge-2004-n3", multi_gate_colinge(t, eot, 3.0))),
-        Architecture::GateAllAround => Some(("colinge-2004-n4", multi_gate_colinge(t, eot, 4.0))),
-        Architecture::CappedFin => Some(("colinge-2004-n2", multi_gate_colinge(t, eot, 2.0))),
+    };
+    match s.architecture {
+        Architecture::DoubleGate => {
+            put("suzuki-1993-double-gate", Some(double_gate_suzuki(t, eot)));
+            put(
+                "frank-taur-wong-1998-double-gate-exact",
+                ftw_double_gate(t, eot, EPS_SI, EPS_SIO2),
+            );
+        }
+        Architecture::ThinBody => {
+            put("yan-1992-single-gate", Some(single_gate_yan(t, eot)));
+            put(
+                "frank-taur-wong-1998-floating-bottom-exact",
+                ftw_single_gate_floating(t, eot, EPS_SI, EPS_SIO2),
+            );
+        }
+        Architecture::Bulk => {
+            // A bulk body's depth of gate control is, in the textbook
+            // estimate, the maximum depletion width.
+            let si = Silicon::at(s.temperature_k);
+            if let Some(wdm) = max_depletion_width_nm(&si, s.doping.channel_per_nm3) {
+                put(
+                    HEADLINE_BULK,
+                    Some(single_gate_yan(wdm.min(s.geometry.substrate_depth_nm), eot)),
+                );
+            }
+            if let Some(d) = depth_nm {
+                put(
+                    "yan-1992-single-gate-depletion-depth",
+                    Some(single_gate_yan(d, eot)),
+                );
+                put(
+                    "frank-taur-wong-1998-grounded-exact",
+                    ftw_single_gate_grounded(d, eot, EPS_SI, EPS_SIO2),
+                );
+            }
+        }
+        Architecture::TriGate => put("colinge-2004-n3", Some(multi_gate_colinge(t, eot, 3.0))),
+        Architecture::GateAllAround => {
+            put("colinge-2004-n4", Some(multi_gate_colinge(t, eot, 4.0)))
+        }
+        Architecture::CappedFin => put("colinge-2004-n2", Some(multi_gate_colinge(t, eot, 2.0))),
     }
+    m
 }
 
 /// Root of an increasing function `f` on the open bracket (a, b) by

@@ -45,13 +45,11 @@ use std::collections::BTreeMap;
 use super::closed_form as cf;
 use super::eigen::{lowest_modes, Coupling, EigenError, EigenOptions, Pencil};
 use super::TheoryError;
-use crate::crosssection::{cross_section, CrossSection, Region, WIDTH_DEFINITION};
 use crate::device::{Architecture, Scenario};
 use crate::discretize::{CellKind, NodeKind, Problem};
-use crate::long_channel::{long_channel, Column};
 use crate::mesh::{graded_line, Line};
-use crate::physics::{Silicon, EPS_SI, EPS_SIO2, PER_CM3_TO_PER_NM3};
-use crate::structure::FINE_INTERFACE_NM;
+use crate::physics::EPS_SI;
+use crate::structure::{cross_section, CrossSection, Region, FINE_INTERFACE_NM, WIDTH_DEFINITION};
 
 /// A mode counts as the body's when at least this share of its
 /// eps-weighted norm lies in silicon (MODEL.md section 6).
@@ -295,59 +293,12 @@ pub enum DepthSource {
     SubstrateDepth,
 }
 
-/// Depletion depth of a bulk device at threshold, nm, and its source.
-pub fn bulk_depletion_depth(s: &Scenario) -> (f64, DepthSource) {
-    let si = Silicon::at(s.temperature_k);
-    let sub = s.geometry.substrate_depth_nm;
-    let na = s.doping.channel_cm3 * PER_CM3_TO_PER_NM3;
-    if na <= si.ni {
-        return (sub, DepthSource::SubstrateDepth);
-    }
-    if let Some(d) = depth_from_solve(s, na) {
-        return (d.min(sub), DepthSource::LongChannelSolve);
-    }
-    match cf::max_depletion_width_nm(&si, s.doping.channel_cm3) {
-        Some(w) => (w.min(sub), DepthSource::MaxDepletionWidth),
-        None => (sub, DepthSource::SubstrateDepth),
-    }
-}
-
-fn depth_from_solve(s: &Scenario, na: f64) -> Option<f64> {
-    let (lc, _) = long_channel(s).ok()?;
-    let mut col = Column::new(s).ok()?;
-    col.sheet_density(lc.vt_v, 0.0).ok()?;
-    let p = &col.problem;
-    let psi = col.potential();
-    let si = p.silicon;
-    let sign = s.polarity.sign();
-    // Majority carriers: holes for n-channel (phi_p = 0), electrons for p-channel.
-    let majority = |k: usize| si.ni * (-sign * psi[k] / si.vt).exp();
-    let target = 0.5 * na;
-    let mut prev: Option<(f64, f64)> = None;
-    for j in 0..p.ny {
-        let k = j * p.nx;
-        if p.semi_area[k] <= 0.0 {
-            continue;
-        }
-        let y = p.y.nodes[j];
-        let m = majority(k);
-        if m >= target {
-            return Some(match prev {
-                Some((y0, m0)) if m0 > 0.0 => {
-                    // Log-linear interpolation between the two nodes.
-                    let t = (target.ln() - m0.ln()) / (m.ln() - m0.ln());
-                    y0 + t.clamp(0.0, 1.0) * (y - y0)
-                }
-                _ => y,
-            });
-        }
-        prev = Some((y, m));
-    }
-    None
-}
-
-/// The 1D stack of a planar scenario, and the bulk depletion depth used (if bulk).
-pub fn planar_stack(s: &Scenario) -> Result<(Stack, Option<(f64, DepthSource)>), TheoryError> {
+/// The 1D stack of a planar scenario; a bulk device needs its depletion
+/// depth (nm, and where it came from), which the caller has solved for.
+pub fn planar_stack(
+    s: &Scenario,
+    depletion: Option<(f64, DepthSource)>,
+) -> Result<(Stack, Option<(f64, DepthSource)>), TheoryError> {
     let g = &s.geometry;
     let gate_side: Vec<Layer> = s
         .stack
@@ -378,7 +329,11 @@ pub fn planar_stack(s: &Scenario) -> Result<(Stack, Option<(f64, DepthSource)>),
             ));
         }
         Architecture::Bulk => {
-            let d = bulk_depletion_depth(s);
+            let d = depletion.ok_or_else(|| TheoryError::InvalidInput {
+                what: "bulk depletion depth nm".into(),
+                value: f64::NAN,
+                reason: "a bulk stack needs the depletion depth from the long-channel solve".into(),
+            })?;
             layers.push(Layer::silicon("depleted silicon", d.0));
             depth = Some(d);
         }
@@ -593,60 +548,6 @@ pub fn section_natural_lengths(cs: &CrossSection) -> Result<SectionLambda, Theor
     }
 }
 
-/// Every applicable closed form for the scenario, nm, keyed by name. All are
-/// EOT-based (the stack enters as SiO2 of thickness EOT, eps_ox = 3.9): they
-/// cannot see fringing through a physically thick high-k layer, nor the
-/// buried-oxide path. `depth_nm` is the bulk depletion depth used.
-pub fn closed_forms(s: &Scenario, depth_nm: Option<f64>) -> BTreeMap<String, f64> {
-    let eot = s.eot_nm();
-    let t = s.geometry.body_thickness_nm;
-    let mut m = BTreeMap::new();
-    let mut put = |k: &str, v: Option<f64>| {
-        if let Some(v) = v.filter(|v| v.is_finite() && *v > 0.0) {
-            m.insert(k.to_string(), v);
-        }
-    };
-    match s.architecture {
-        Architecture::DoubleGate => {
-            put(
-                "suzuki-1993-double-gate",
-                Some(cf::double_gate_suzuki(t, eot)),
-            );
-            put(
-                "frank-taur-wong-1998-double-gate-exact",
-                cf::ftw_double_gate(t, eot, EPS_SI, EPS_SIO2),
-            );
-        }
-        Architecture::ThinBody => {
-            put("yan-1992-single-gate", Some(cf::single_gate_yan(t, eot)));
-            put(
-                "frank-taur-wong-1998-floating-bottom-exact",
-                cf::ftw_single_gate_floating(t, eot, EPS_SI, EPS_SIO2),
-            );
-        }
-        Architecture::Bulk => {
-            if let Some(d) = depth_nm {
-                put(
-                    "yan-1992-single-gate-depletion-depth",
-                    Some(cf::single_gate_yan(d, eot)),
-                );
-                put(
-                    "frank-taur-wong-1998-grounded-exact",
-                    cf::ftw_single_gate_grounded(d, eot, EPS_SI, EPS_SIO2),
-                );
-            }
-        }
-        Architecture::TriGate => put("colinge-2004-n3", Some(cf::multi_gate_colinge(t, eot, 3.0))),
-        Architecture::GateAllAround => {
-            put("colinge-2004-n4", Some(cf::multi_gate_colinge(t, eot, 4.0)))
-        }
-        Architecture::CappedFin => {
-            put("colinge-2004-n2", Some(cf::multi_gate_colinge(t, eot, 2.0)))
-        }
-    }
-    m
-}
-
 /// Rule-of-thumb verdict on L_g / lambda (common practice: at least 5-6).
 #[derive(Debug, Clone, Copy, PartialEq, Eq, serde::Serialize)]
 #[serde(rename_all = "kebab-case")]
@@ -690,7 +591,7 @@ pub struct ModeSummary {
 #[derive(Debug, Clone, PartialEq, serde::Serialize)]
 pub struct LambdaReport {
     pub name: String,
-    pub architecture: String,
+    pub architecture: Architecture,
     /// "1d-stack" (planar) or "2d-cross-section" (fins and wires).
     pub method: String,
     pub gate_length_nm: f64,
@@ -726,14 +627,18 @@ pub struct LambdaReport {
 /// The natural-length report of a scenario: numeric lambda (1D stack for
 /// planar devices, 2D cross-section for fins and wires), the dielectric path,
 /// every applicable closed form, L_g/lambda and the rule-of-thumb verdict.
-pub fn lambda_report(s: &Scenario) -> Result<LambdaReport, TheoryError> {
-    let lg = s.geometry.gate_length_nm;
-    let mut notes = vec![
-        "lambda: decay length of exp(-x/lambda) along the channel (Frank-Taur-Wong Lambda = pi lambda)".to_string(),
-    ];
-    let (method, body_l, body_si, path, depth, modes, nodes) = if s.architecture.is_planar() {
-        let (stack, depth) = planar_stack(s)?;
+///
+/// `depletion` is the bulk depletion depth (ignored for other architectures).
+/// The eigenproblems are linear and solved here; nothing in this module runs
+/// a nonlinear solve.
+pub fn lambda_report(
+    s: &Scenario,
+    depletion: Option<(f64, DepthSource)>,
+) -> Result<LambdaReport, TheoryError> {
+    if s.architecture.is_planar() {
+        let (stack, depth) = planar_stack(s, depletion)?;
         let r = stack.natural_length(scenario_stack_mesh(s))?;
+        let mut notes = Vec::new();
         if let Some((_, src)) = depth {
             notes.push(format!(
                 "bulk: grounded plane at the depletion depth ({})",
@@ -747,52 +652,76 @@ pub fn lambda_report(s: &Scenario) -> Result<LambdaReport, TheoryError> {
             ));
         }
         notes.push("1D stack: no lateral fringing, no buried-oxide path to the drain".into());
-        (
+        Ok(report(
+            s,
             "1d-stack",
-            r.lambda_nm,
-            r.silicon_fraction,
+            (r.lambda_nm, r.silicon_fraction),
             None,
             depth,
             Vec::new(),
             r.nodes,
-        )
+            notes,
+        ))
     } else {
         let cs = cross_section(s)?;
         let sl = section_natural_lengths(&cs)?;
-        let modes = sl
-            .modes
-            .iter()
-            .map(|m| ModeSummary {
-                lambda_nm: m.lambda_nm,
-                silicon_fraction: m.silicon_fraction,
-                region: m.region.describe().into(),
-            })
-            .collect();
-        notes.push(format!(
+        Ok(section_report(s, &cs, &sl))
+    }
+}
+
+/// The report of a fin or wire cross-section whose modes are already computed.
+pub fn section_report(s: &Scenario, cs: &CrossSection, sl: &SectionLambda) -> LambdaReport {
+    let modes = sl
+        .modes
+        .iter()
+        .map(|m| ModeSummary {
+            lambda_nm: m.lambda_nm,
+            silicon_fraction: m.silicon_fraction,
+            region: m.region.describe().into(),
+        })
+        .collect();
+    report(
+        s,
+        "2d-cross-section",
+        (sl.body.lambda_nm, sl.body.silicon_fraction),
+        sl.dielectric_path.as_ref(),
+        None,
+        modes,
+        cs.problem.node_count(),
+        vec![format!(
             "fin/wire width convention elsewhere: {WIDTH_DEFINITION}"
-        ));
-        (
-            "2d-cross-section",
-            sl.body.lambda_nm,
-            sl.body.silicon_fraction,
-            sl.dielectric_path,
-            None,
-            modes,
-            cs.problem.node_count(),
-        )
-    };
+        )],
+    )
+}
+
+#[allow(clippy::too_many_arguments)]
+fn report(
+    s: &Scenario,
+    method: &str,
+    (body_l, body_si): (f64, f64),
+    path: Option<&Mode>,
+    depth: Option<(f64, DepthSource)>,
+    modes: Vec<ModeSummary>,
+    nodes: usize,
+    extra_notes: Vec<String>,
+) -> LambdaReport {
+    let lg = s.geometry.gate_length_nm;
+    let mut notes = vec![
+        "lambda: decay length of exp(-x/lambda) along the channel (Frank-Taur-Wong Lambda = pi lambda)".to_string(),
+    ];
+    notes.extend(extra_notes);
     let lg_over = lg / body_l;
     let verdict = Verdict::of(lg_over);
-    Ok(LambdaReport {
+    LambdaReport {
         name: s.name.clone(),
-        architecture: s.architecture.name().into(),
+        architecture: s.architecture,
         method: method.into(),
         gate_length_nm: lg,
         lambda_numeric_nm: body_l,
         body_mode_silicon_fraction: body_si,
-        lambda_dielectric_path_nm: path.as_ref().map(|m| m.lambda_nm),
-        dielectric_path_region: path.as_ref().map(|m| m.region.describe().to_string()),
-        lambda_closed_forms: closed_forms(s, depth.map(|d| d.0)),
+        lambda_dielectric_path_nm: path.map(|m| m.lambda_nm),
+        dielectric_path_region: path.map(|m| m.region.describe().to_string()),
+        lambda_closed_forms: cf::table(s, depth.map(|d| d.0)),
         closed_form_note: "closed forms are thin-layer approximations taking the stack through its EOT \
                            (SiO2, eps 3.9): they miss fringing through physically thick high-k layers and \
                            buried-oxide paths"
@@ -800,7 +729,7 @@ pub fn lambda_report(s: &Scenario) -> Result<LambdaReport, TheoryError> {
         eot_nm: s.eot_nm(),
         stack_thickness_nm: s.stack_thickness_nm(),
         lg_over_lambda: lg_over,
-        lg_over_lambda_dielectric_path: path.as_ref().map(|m| lg / m.lambda_nm),
+        lg_over_lambda_dielectric_path: path.map(|m| lg / m.lambda_nm),
         rule_of_thumb: "common practice: L_g at least 5-6 lambda".into(),
         verdict,
         verdict_text: verdict.describe().into(),
@@ -809,67 +738,5 @@ pub fn lambda_report(s: &Scenario) -> Result<LambdaReport, TheoryError> {
         modes,
         mesh_nodes: nodes,
         notes,
-    })
-}
-
-/// Console text of a [`LambdaReport`], with units.
-pub fn render_text(r: &LambdaReport) -> String {
-    use std::fmt::Write;
-    let mut o = String::new();
-    let _ = writeln!(
-        o,
-        "natural length of {} ({}, {})",
-        r.name, r.architecture, r.method
-    );
-    let _ = writeln!(
-        o,
-        "  lambda (body, numeric)     {:8.3} nm   ({:.0} % of the mode in silicon)",
-        r.lambda_numeric_nm,
-        100.0 * r.body_mode_silicon_fraction
-    );
-    match (r.lambda_dielectric_path_nm, &r.dielectric_path_region) {
-        (Some(l), Some(reg)) => {
-            let _ = writeln!(o, "  dielectric path            {l:8.3} nm   (slower than the body mode; lives in the {reg})");
-        }
-        _ => {
-            let _ = writeln!(
-                o,
-                "  dielectric path               none slower than the body mode"
-            );
-        }
     }
-    for (k, v) in &r.lambda_closed_forms {
-        let _ = writeln!(o, "  closed form {k:<38} {v:8.3} nm");
-    }
-    let _ = writeln!(o, "    ({})", r.closed_form_note);
-    let _ = writeln!(
-        o,
-        "  EOT {:.3} nm, physical stack {:.3} nm",
-        r.eot_nm, r.stack_thickness_nm
-    );
-    if let (Some(d), Some(src)) = (r.depletion_depth_nm, r.depletion_depth_source) {
-        let _ = writeln!(o, "  depletion depth            {d:8.3} nm   ({src:?})");
-    }
-    let _ = writeln!(
-        o,
-        "  L_g = {:.2} nm, L_g/lambda = {:.2}: {}",
-        r.gate_length_nm, r.lg_over_lambda, r.verdict_text
-    );
-    if let Some(x) = r.lg_over_lambda_dielectric_path {
-        let _ = writeln!(o, "  L_g/lambda (dielectric path) = {x:.2}");
-    }
-    let _ = writeln!(o, "  rule of thumb: {}", r.rule_of_thumb);
-    if !r.modes.is_empty() {
-        let _ = writeln!(o, "  modes, slowest first:");
-        for m in &r.modes {
-            let _ = writeln!(
-                o,
-                "    {:8.3} nm  {:5.1} % silicon  mostly {}",
-                m.lambda_nm,
-                100.0 * m.silicon_fraction,
-                m.region
-            );
-        }
-    }
-    o
 }

@@ -13,20 +13,16 @@
 //! channel potential at the long-channel threshold. For fins and wires phi_s
 //! is taken at the leakiest point of the cross-section (the silicon node with
 //! the highest barrier, i.e. the lowest potential for electrons), from the
-//! cross-section solve at V_t,long and V = 0; for planar devices
-//! ([`planar_barrier_v`]) at the top silicon surface of the long-channel
-//! column at V_t,long. Signs follow the polarity: a
-//! p-channel device's roll-off is positive (|V_t| falls).
+//! cross-section solve at V_t,long and V = 0; for planar devices at the top
+//! silicon surface of the long-channel column at V_t,long. Both come from
+//! `crate::evaluate::reference`, which solves; this module only evaluates.
+//! Signs follow the polarity: a p-channel device's roll-off is positive (|V_t| falls).
 //!
 //! The model is a screening estimate; it assumes L well above lambda, and
 //! breaks down (an error, not a number) where 1 - 2 exp(-L/(2 lambda)) <= 0.
 
-use super::lambda::{section_natural_lengths, Verdict};
 use super::TheoryError;
-use crate::crosssection::{FinChannel, WIDTH_DEFINITION};
-use crate::device::Scenario;
-use crate::long_channel::extract_long_channel;
-use crate::physics::PER_CM3_TO_PER_NM3;
+use crate::device::{Polarity, Scenario};
 
 /// exp(-L/(2 lambda)) + 2 exp(-L/lambda): the Liu et al. 1993 short-channel factor.
 pub fn liu_factor(gate_length_nm: f64, lambda_nm: f64) -> f64 {
@@ -80,7 +76,7 @@ pub struct ShortChannelEstimate {
 }
 
 /// The model's figures at `gate_length_nm` (drain biases as typed, signed;
-/// `sign` +1 for n-channel, -1 for p-channel).
+/// a p-channel device's roll-off has the opposite sign).
 pub fn estimate(
     gate_length_nm: f64,
     lambda_nm: f64,
@@ -88,8 +84,9 @@ pub fn estimate(
     vds_lin_v: f64,
     vds_sat_v: f64,
     ss_long_mv_per_dec: f64,
-    sign: f64,
+    polarity: Polarity,
 ) -> Result<ShortChannelEstimate, TheoryError> {
+    let sign = polarity.sign();
     for (what, v) in [("gate_length_nm", gate_length_nm), ("lambda_nm", lambda_nm)] {
         if !(v.is_finite() && v > 0.0) {
             return Err(TheoryError::InvalidInput {
@@ -203,234 +200,7 @@ pub fn fit_lambda_from_dibl(
 /// level, source Fermi level at 0): sign V_T asinh(N_SD / (2 n_i)).
 pub fn source_drain_potential_v(s: &Scenario) -> f64 {
     let si = crate::physics::Silicon::at(s.temperature_k);
-    si.ohmic_potential(
-        0.0,
-        s.polarity.sign() * s.doping.source_drain_cm3 * PER_CM3_TO_PER_NM3,
-    )
-}
-
-/// V_bi - phi_s (V, polarity-signed) of a planar device: phi_s is the
-/// surface potential (top silicon node, y = 0) of the long-channel 1D column
-/// at V_t,long and V = 0; also returns V_t,long (V) and SS_long (mV/dec). For
-/// use with [`estimate`] beside the 2D along-channel solves.
-pub fn planar_barrier_v(s: &Scenario) -> Result<(f64, f64, f64), TheoryError> {
-    if !s.architecture.is_planar() {
-        return Err(TheoryError::NotApplicable {
-            what: "planar barrier".into(),
-            architecture: s.architecture,
-        });
-    }
-    let (lc, _) = crate::long_channel::long_channel(s)?;
-    let mut col =
-        crate::long_channel::Column::new(s).map_err(crate::long_channel::LongChannelError::from)?;
-    col.sheet_density(lc.vt_v, 0.0)?;
-    let p = &col.problem;
-    let j0 = p.y.index_of(0.0).ok_or_else(|| TheoryError::InvalidInput {
-        what: "silicon surface y_nm".into(),
-        value: 0.0,
-        reason: "not a mesh line".into(),
-    })?;
-    let phi_s = col.potential()[j0 * p.nx];
-    Ok((
-        s.polarity.sign() * (source_drain_potential_v(s) - phi_s),
-        lc.vt_v,
-        lc.ss_mv_per_dec,
-    ))
-}
-
-/// Predictions for a fin or wire device: long-channel V_t and SS from the
-/// cross-section nonlinear Poisson solve (Pao-Sah), corner inversion, and
-/// the theory (Liu et al. 1993 with the numeric body lambda) at the
-/// scenario's gate length. Every short-channel figure here is theory, not a
-/// 2D along-channel solve.
-#[derive(Debug, Clone, PartialEq, serde::Serialize)]
-pub struct FinPrediction {
-    pub name: String,
-    pub architecture: String,
-    /// Always "theory: Liu et al. 1993 quasi-2D model with the numeric body natural length".
-    pub kind: String,
-    /// Device width W, nm, and how it is defined.
-    pub width_nm: f64,
-    pub width_definition: String,
-    pub gate_length_nm: f64,
-    pub lambda_nm: f64,
-    pub body_mode_silicon_fraction: f64,
-    pub lambda_dielectric_path_nm: Option<f64>,
-    pub dielectric_path_region: Option<String>,
-    pub lg_over_lambda: f64,
-    pub verdict: Verdict,
-    /// Long-channel threshold (I_D = I_cc W/L at V_DS,lin, Pao-Sah), V.
-    pub vt_long_v: f64,
-    pub ss_long_mv_per_dec: f64,
-    /// Channel-carrier density at the top corner (x = W/2, y = 0) over that at
-    /// the centre of the top silicon face, at V_t,long and V = 0.
-    pub corner_to_top_centre_ratio: f64,
-    /// ... and over that at the middle of the side face (x = W/2, y = H/2).
-    pub corner_to_side_centre_ratio: f64,
-    /// phi_s: potential of the leakiest silicon node at V_t,long, V.
-    pub channel_potential_at_threshold_v: f64,
-    /// V_bi: source/drain potential at neutrality, V.
-    pub source_drain_potential_v: f64,
-    /// V_bi - phi_s (polarity-signed, positive for a barrier), V.
-    pub barrier_v: f64,
-    /// Theory at the gate length.
-    pub vt_lin_v: f64,
-    pub vt_sat_v: f64,
-    pub roll_off_lin_v: f64,
-    pub roll_off_sat_v: f64,
-    pub dibl_mv_per_v: f64,
-    pub ss_mv_per_dec: f64,
-    /// Newton steps of the cross-section solve (solved once per cross-section in a process;
-    /// other gate lengths of the same cross-section reuse it).
-    pub newton_steps: usize,
-    pub cross_section_nodes: usize,
-}
-
-/// Long-channel cross-section solve plus the theory's short-channel figures
-/// for a tri-gate, gate-all-around or capped-fin scenario.
-pub fn predict_fin(s: &Scenario) -> Result<FinPrediction, TheoryError> {
-    if !s.architecture.is_fin() {
-        return Err(TheoryError::NotApplicable {
-            what: "fin prediction".into(),
-            architecture: s.architecture,
-        });
-    }
-    let f = fin_long_channel(s)?;
-    let sign = s.polarity.sign();
-    let lg = s.geometry.gate_length_nm;
-    let lambda = f.lambda_nm;
-    let est = estimate(
-        lg,
-        lambda,
-        f.barrier_v,
-        s.bias.vds_lin_v,
-        s.bias.vds_sat_v,
-        f.ss_long_mv_per_dec,
-        sign,
-    )?;
-    Ok(FinPrediction {
-        name: s.name.clone(),
-        architecture: s.architecture.name().into(),
-        kind: "theory: Liu et al. 1993 quasi-2D model with the numeric body natural length".into(),
-        width_nm: f.width_nm,
-        width_definition: WIDTH_DEFINITION.into(),
-        gate_length_nm: lg,
-        lambda_nm: lambda,
-        body_mode_silicon_fraction: f.silicon_fraction,
-        lambda_dielectric_path_nm: f.dielectric_path_nm,
-        dielectric_path_region: f.dielectric_path_region.clone(),
-        lg_over_lambda: lg / lambda,
-        verdict: Verdict::of(lg / lambda),
-        vt_long_v: f.vt_long_v,
-        ss_long_mv_per_dec: f.ss_long_mv_per_dec,
-        corner_to_top_centre_ratio: f.corner_to_top,
-        corner_to_side_centre_ratio: f.corner_to_side,
-        channel_potential_at_threshold_v: f.phi_s_v,
-        source_drain_potential_v: f.vbi_v,
-        barrier_v: f.barrier_v,
-        vt_lin_v: f.vt_long_v + est.roll_off_lin_v,
-        vt_sat_v: f.vt_long_v + est.roll_off_sat_v,
-        roll_off_lin_v: est.roll_off_lin_v,
-        roll_off_sat_v: est.roll_off_sat_v,
-        dibl_mv_per_v: est.dibl_mv_per_v,
-        ss_mv_per_dec: est.ss_mv_per_dec,
-        newton_steps: f.newton_steps,
-        cross_section_nodes: f.nodes,
-    })
-}
-
-/// The gate-length-independent part of a fin prediction: the cross-section's
-/// natural length, long-channel V_t and SS (the Pao-Sah criterion I_cc W/L
-/// makes V_t,long independent of L), corner inversion and the barrier.
-#[derive(Debug, Clone, PartialEq)]
-struct FinLongChannel {
-    lambda_nm: f64,
-    silicon_fraction: f64,
-    dielectric_path_nm: Option<f64>,
-    dielectric_path_region: Option<String>,
-    vt_long_v: f64,
-    ss_long_mv_per_dec: f64,
-    corner_to_top: f64,
-    corner_to_side: f64,
-    phi_s_v: f64,
-    vbi_v: f64,
-    barrier_v: f64,
-    width_nm: f64,
-    newton_steps: usize,
-    nodes: usize,
-}
-
-/// Cross-section results already computed in this process, keyed by the
-/// scenario with its name and gate length blanked (a sweep over L solves the
-/// cross-section once). Bounded: cleared when it holds this many.
-const FIN_CACHE_SIZE: usize = 256;
-
-fn fin_long_channel(s: &Scenario) -> Result<std::sync::Arc<FinLongChannel>, TheoryError> {
-    use std::collections::HashMap;
-    use std::sync::{Arc, Mutex, OnceLock};
-    static CACHE: OnceLock<Mutex<HashMap<String, Arc<FinLongChannel>>>> = OnceLock::new();
-    let mut key_scenario = s.clone();
-    key_scenario.name.clear();
-    key_scenario.geometry.gate_length_nm = 0.0;
-    key_scenario.warnings.clear();
-    let key = serde_json::to_string(&key_scenario).expect("scenario serialises");
-    let cache = CACHE.get_or_init(|| Mutex::new(HashMap::new()));
-    if let Some(hit) = cache.lock().expect("fin cache").get(&key) {
-        return Ok(hit.clone());
-    }
-    let computed = Arc::new(compute_fin_long_channel(s)?);
-    let mut map = cache.lock().expect("fin cache");
-    if map.len() >= FIN_CACHE_SIZE {
-        map.clear();
-    }
-    map.insert(key, computed.clone());
-    Ok(computed)
-}
-
-fn compute_fin_long_channel(s: &Scenario) -> Result<FinLongChannel, TheoryError> {
-    let mut fin = FinChannel::new(s)?;
-    let sl = section_natural_lengths(&fin.section)?;
-    let (lc, _) = extract_long_channel(&mut fin, s)?;
-    fin.line_density(lc.vt_v, 0.0)?;
-    let sign = s.polarity.sign();
-    let cs = &fin.section;
-    let n_corner = fin.carrier_density(cs.corner_node, 0.0);
-    let n_top = fin.carrier_density(cs.top_centre_node, 0.0);
-    let n_side = fin.carrier_density(cs.side_centre_node, 0.0);
-    let p = &cs.problem;
-    let psi = fin.potential();
-    let phi_s = p
-        .semi_area
-        .iter()
-        .enumerate()
-        .filter(|(_, a)| **a > 0.0)
-        .map(|(k, _)| psi[k])
-        .min_by(|a, b| (sign * a).total_cmp(&(sign * b)))
-        .ok_or_else(|| TheoryError::InvalidInput {
-            what: "fin silicon area nm^2".into(),
-            value: 0.0,
-            reason: "no silicon nodes".into(),
-        })?;
-    let vbi = source_drain_potential_v(s);
-    Ok(FinLongChannel {
-        lambda_nm: sl.body.lambda_nm,
-        silicon_fraction: sl.body.silicon_fraction,
-        dielectric_path_nm: sl.dielectric_path.as_ref().map(|m| m.lambda_nm),
-        dielectric_path_region: sl
-            .dielectric_path
-            .as_ref()
-            .map(|m| m.region.describe().into()),
-        vt_long_v: lc.vt_v,
-        ss_long_mv_per_dec: lc.ss_mv_per_dec,
-        corner_to_top: n_corner / n_top,
-        corner_to_side: n_corner / n_side,
-        phi_s_v: phi_s,
-        vbi_v: vbi,
-        barrier_v: sign * (vbi - phi_s),
-        width_nm: cs.width_nm,
-        newton_steps: fin.steps,
-        nodes: p.node_count(),
-    })
+    si.ohmic_potential(0.0, s.polarity.sign() * s.doping.source_drain_per_nm3)
 }
 
 #[cfg(test)]
@@ -471,8 +241,9 @@ mod tests {
     }
 }
 
-/// What the short-channel model needs from a device; none of it depends on
-/// the gate length, so one call serves a whole scan over L.
+/// What the short-channel model needs from a device, all from solved inputs
+/// (the numeric natural length, the long-channel reference and its barrier);
+/// none of it depends on the gate length, so one value serves a whole scan over L.
 #[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
 pub struct TheoryInputs {
     /// Numeric body natural length, nm.
@@ -483,36 +254,7 @@ pub struct TheoryInputs {
     pub ss_long_mv_per_dec: f64,
     pub vds_lin_v: f64,
     pub vds_sat_v: f64,
-    pub sign: f64,
-}
-
-/// The model's inputs for any architecture: the numeric lambda, and the
-/// barrier and long-channel figures from the 1D column (planar) or the
-/// cross-section (fins and wires).
-pub fn theory_inputs(s: &Scenario) -> Result<TheoryInputs, TheoryError> {
-    theory_inputs_with_lambda(s, crate::theory::lambda_report(s)?.lambda_numeric_nm)
-}
-
-/// [`theory_inputs`] with the numeric natural length already known (nm).
-pub fn theory_inputs_with_lambda(
-    s: &Scenario,
-    lambda_nm: f64,
-) -> Result<TheoryInputs, TheoryError> {
-    let (barrier_v, vt_long_v, ss_long_mv_per_dec) = if s.architecture.is_planar() {
-        planar_barrier_v(s)?
-    } else {
-        let f = predict_fin(s)?;
-        (f.barrier_v, f.vt_long_v, f.ss_long_mv_per_dec)
-    };
-    Ok(TheoryInputs {
-        lambda_nm,
-        barrier_v,
-        vt_long_v,
-        ss_long_mv_per_dec,
-        vds_lin_v: s.bias.vds_lin_v,
-        vds_sat_v: s.bias.vds_sat_v,
-        sign: s.polarity.sign(),
-    })
+    pub polarity: Polarity,
 }
 
 impl TheoryInputs {
@@ -525,7 +267,7 @@ impl TheoryInputs {
             self.vds_lin_v,
             self.vds_sat_v,
             self.ss_long_mv_per_dec,
-            self.sign,
+            self.polarity,
         )
     }
 }

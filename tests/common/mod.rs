@@ -33,3 +33,17 @@ channel_cm3 = 0
 pub fn rel(a: f64, b: f64) -> f64 {
     ((a - b) / b).abs()
 }
+
+/// The natural-length report of a device (solving the long-channel column
+/// for a bulk device's depletion depth), as `gatehold lambda` computes it.
+pub fn lambda_of(
+    s: &Scenario,
+) -> Result<gatehold::theory::LambdaReport, gatehold::evaluate::ReferenceError> {
+    gatehold::evaluate::natural_length(s, &gatehold::progress::Silent)
+}
+
+/// One device solved alone (its reference included).
+pub fn solve_device(s: &Scenario) -> gatehold::evaluate::DeviceSolution {
+    let r = gatehold::evaluate::Reference::of(s, &gatehold::progress::Silent).expect("reference");
+    gatehold::evaluate::device::solve_planar(s, &r, &gatehold::progress::Silent).expect("run")
+}

@@ -229,8 +229,8 @@ impl Problem {
     pub fn carriers(&self, psi: f64, phi_n: f64, phi_p: f64) -> (f64, f64) {
         let s = &self.silicon;
         (
-            s.ni * ((psi - phi_n) / s.vt).exp(),
-            s.ni * ((phi_p - psi) / s.vt).exp(),
+            s.ni * ((psi - phi_n) / s.thermal_v).exp(),
+            s.ni * ((phi_p - psi) / s.thermal_v).exp(),
         )
     }
 
@@ -278,7 +278,7 @@ impl Problem {
         let scale = Q_OVER_EPS0_V_NM * a;
         (
             flux + scale * rho,
-            sum_c + scale * (n + p) / self.silicon.vt,
+            sum_c + scale * (n + p) / self.silicon.thermal_v,
         )
     }
 

@@ -1,30 +1,21 @@
-//! From a [`Scenario`] to discretised structures: the along-channel cross-section
-//! of planar devices (DEVICE-FORMAT.md geometry) and the 1D long-channel column.
+//! Planar devices (bulk, thin-body, double-gate): the along-channel
+//! cross-section (DEVICE-FORMAT.md geometry), its doping, and the 1D
+//! long-channel column at mid-channel.
 //!
 //! Coordinates: x from the source contact to the drain contact, y downward from
-//! the top silicon surface, nm. Electrode 0 is the gate (both gates of a double
-//! gate), electrode 1 the thin-body back plane. Contact 0 is the source,
-//! 1 the drain, 2 the bulk substrate.
+//! the top silicon surface, nm. Electrode [`GATE`] is the gate (both gates of a double
+//! gate), [`BACK_PLANE`] the thin-body back plane. Contacts: [`SOURCE`], [`DRAIN`],
+//! and the bulk [`SUBSTRATE`].
 
-use crate::device::{Architecture, Scenario};
+use super::{
+    lookup, BACK_PLANE, DRAIN, FINE_INTERFACE_NM, FINE_JUNCTION_NM, FINE_OTHER_NM, GATE, SOURCE,
+    SUBSTRATE,
+};
+use crate::device::{Architecture, Polarity, Scenario};
 use crate::discretize::{CellKind, Problem};
 use crate::mesh::{graded_line, Line};
-use crate::physics::{Silicon, PER_CM3_TO_PER_NM3};
+use crate::physics::Silicon;
 
-/// Electrode numbers.
-pub const GATE: usize = 0;
-pub const BACK_PLANE: usize = 1;
-/// Contact numbers.
-pub const SOURCE: usize = 0;
-pub const DRAIN: usize = 1;
-pub const SUBSTRATE: usize = 2;
-
-/// Finest step at a silicon/dielectric interface, nm (inversion layer ~1 nm; common practice).
-pub const FINE_INTERFACE_NM: f64 = 0.02;
-/// Finest step at junctions and gate edges, nm.
-pub const FINE_JUNCTION_NM: f64 = 0.2;
-/// Finest step at other refined points (gate electrode corners, well bottoms), nm.
-pub const FINE_OTHER_NM: f64 = 0.25;
 /// Thickness of the metal slab standing for the thin-body back plane, nm.
 const BACK_PLANE_SLAB_NM: f64 = 1.0;
 
@@ -64,7 +55,7 @@ pub struct DopingProfile {
     pub grad: f64,
     /// Bulk well depth (None: wells through the whole film).
     pub well_depth: Option<f64>,
-    pub sign: f64,
+    pub polarity: Polarity,
 }
 
 impl DopingProfile {
@@ -72,13 +63,13 @@ impl DopingProfile {
         let g = &s.geometry;
         let d = &s.doping;
         DopingProfile {
-            nsd: d.source_drain_cm3 * PER_CM3_TO_PER_NM3,
-            nch: d.channel_cm3 * PER_CM3_TO_PER_NM3,
+            nsd: d.source_drain_per_nm3,
+            nch: d.channel_per_nm3,
             source_edge: g.source_drain_length_nm + d.junction_offset_nm,
             drain_edge: g.source_drain_length_nm + g.gate_length_nm - d.junction_offset_nm,
             grad: d.junction_gradient_nm_per_decade,
             well_depth: (s.architecture == Architecture::Bulk).then_some(g.junction_depth_nm),
-            sign: s.polarity.sign(),
+            polarity: s.polarity,
         }
     }
 
@@ -94,7 +85,7 @@ impl DopingProfile {
 
     /// Net doping averaged over the rectangle (positive: n-type), nm^-3.
     pub fn net_avg(&self, x0: f64, x1: f64, y0: f64, y1: f64) -> f64 {
-        self.sign * (self.sd_avg(x0, x1, y0, y1) - self.nch)
+        self.polarity.sign() * (self.sd_avg(x0, x1, y0, y1) - self.nch)
     }
 
     /// Metallurgical channel length at the surface: distance between the
@@ -191,13 +182,6 @@ fn vertical_layout(s: &Scenario) -> VerticalLayout {
         _ => {}
     }
     VerticalLayout { hard, fine }
-}
-
-fn lookup(fine: &[(f64, f64)], x: f64) -> Option<f64> {
-    fine.iter()
-        .filter(|(p, _)| (p - x).abs() < 1e-9)
-        .map(|(_, h)| *h)
-        .reduce(f64::min)
 }
 
 /// Mesh lines in y for a planar device's column (shared by the 2D and 1D problems).
@@ -346,7 +330,7 @@ pub fn long_channel_column(s: &Scenario) -> Problem {
         Silicon::at(s.temperature_k),
         |_, yc| planar_material(s, 0.5, yc, (0.0, 1.0)),
         |_, j| (bulk && j == ny - 1).then_some(SUBSTRATE),
-        |_, _, _, _| -doping.sign * doping.nch,
+        |_, _, _, _| -doping.polarity.sign() * doping.nch,
     );
     if mirror_plane(s).is_some() {
         p.symmetry_factor = 2.0;

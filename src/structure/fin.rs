@@ -1,6 +1,7 @@
 //! The cross-section PERPENDICULAR to the channel of fin and wire devices
 //! (DEVICE-FORMAT.md: tri-gate, gate-all-around; plus the capped fin), built
-//! as a [`Problem`], and its long-channel nonlinear Poisson solve.
+//! as a [`Problem`] (geometry, materials and doping only; the solve is
+//! [`crate::solve::UniformChannel`]).
 //!
 //! Coordinates: x across the fin, centred on it (fin from -W/2 to W/2); y
 //! downward from the top silicon surface (fin from 0 to H), nm. Electrode 0
@@ -32,14 +33,11 @@
 //! these keys have no effect outside thin-body; they only act through the
 //! buried oxide here.
 
+use super::{lookup, BACK_PLANE, FINE_INTERFACE_NM, FINE_OTHER_NM, GATE};
 use crate::device::{Architecture, Scenario};
 use crate::discretize::{CellKind, Problem};
-use crate::long_channel::{solve_at_channel_level, GateBias, LongChannelError, PaoSahDevice};
 use crate::mesh::graded_line;
-use crate::physics::{Silicon, PER_CM3_TO_PER_NM3};
-use crate::solve::{neutral_guess, NewtonOptions, PoissonSolver, QuasiFermi, SolveError};
-pub use crate::structure::{BACK_PLANE, GATE};
-use crate::structure::{FINE_INTERFACE_NM, FINE_OTHER_NM};
+use crate::physics::Silicon;
 
 /// Thickness of the metal slab that closes the domain (gate top, back plane), nm.
 pub const METAL_SLAB_NM: f64 = 1.0;
@@ -77,8 +75,6 @@ impl Region {
 pub enum CrossSectionError {
     #[error("architecture {0} has no fin or wire cross-section (planar devices use the along-channel section)")]
     NotAFin(Architecture),
-    #[error(transparent)]
-    Solve(#[from] SolveError),
 }
 
 /// A fin or wire cross-section ready for eigen and Poisson solves.
@@ -99,13 +95,6 @@ pub struct CrossSection {
     pub top_centre_node: usize,
     /// Node at the middle of the right side face (x = W/2, y = H/2).
     pub side_centre_node: usize,
-}
-
-fn lookup(fine: &[(f64, f64)], x: f64) -> Option<f64> {
-    fine.iter()
-        .filter(|(p, _)| (p - x).abs() < 1e-9)
-        .map(|(_, h)| *h)
-        .reduce(f64::min)
 }
 
 /// Builds the cross-section of a tri-gate, gate-all-around or capped-fin scenario.
@@ -209,7 +198,7 @@ pub fn cross_section(s: &Scenario) -> Result<CrossSection, CrossSectionError> {
         }
     };
     let silicon = Silicon::at(s.temperature_k);
-    let net = -s.polarity.sign() * s.doping.channel_cm3 * PER_CM3_TO_PER_NM3;
+    let net = -s.polarity.sign() * s.doping.channel_per_nm3;
     let problem = Problem::new(
         x,
         y,
@@ -247,100 +236,6 @@ pub fn cross_section(s: &Scenario) -> Result<CrossSection, CrossSectionError> {
         fin_height_nm: h,
         width_nm,
     })
-}
-
-/// A long fin or wire seen through its cross-section: nonlinear Poisson with
-/// uniform quasi-Fermi levels (the channel carrier's at V, the other at 0).
-pub struct FinChannel {
-    pub section: CrossSection,
-    solver: PoissonSolver,
-    psi: Vec<f64>,
-    sign: f64,
-    wf_ev: f64,
-    back_wf_ev: f64,
-    back_bias_v: f64,
-    mobility_cm2_per_vs: f64,
-    opts: NewtonOptions,
-    /// Newton steps so far.
-    pub steps: usize,
-}
-
-impl FinChannel {
-    pub fn new(s: &Scenario) -> Result<Self, CrossSectionError> {
-        let section = cross_section(s)?;
-        let solver = PoissonSolver::new(&section.problem)?;
-        let p = &section.problem;
-        let psi = neutral_guess(p, &QuasiFermi::uniform(p.nx, 0.0, 0.0));
-        Ok(FinChannel {
-            opts: NewtonOptions::for_vt(p.silicon.vt),
-            solver,
-            psi,
-            sign: s.polarity.sign(),
-            wf_ev: s.gate.workfunction_ev,
-            back_wf_ev: s.gate.back_workfunction_ev,
-            back_bias_v: s.gate.back_bias_v,
-            mobility_cm2_per_vs: s.extraction.mobility_cm2_per_vs,
-            steps: 0,
-            section,
-        })
-    }
-
-    /// Solves at gate voltage `vgs` with the channel carrier's quasi-Fermi
-    /// level at `v`; returns the channel-carrier density integrated over the
-    /// cross-section, nm^-1 (carriers per nm of channel), and leaves the
-    /// potential in [`FinChannel::potential`]. A non-converged solve is an error.
-    pub fn line_density(&mut self, vgs: f64, v: f64) -> Result<f64, LongChannelError> {
-        let p = &self.section.problem;
-        let si = p.silicon;
-        let electrodes = [
-            si.electrode_potential(vgs, self.wf_ev),
-            si.electrode_potential(self.back_bias_v, self.back_wf_ev),
-        ];
-        let gate = GateBias {
-            vgs,
-            v,
-            sign: self.sign,
-            electrodes: &electrodes,
-            what: "fin cross-section",
-        };
-        self.steps +=
-            solve_at_channel_level(p, &mut self.solver, &mut self.psi, &gate, &self.opts)?;
-        let s = self.sign;
-        let vt = si.vt;
-        let mut sum = 0.0;
-        for (k, &a) in p.semi_area.iter().enumerate() {
-            if a > 0.0 {
-                sum += a * si.ni * (s * (self.psi[k] - v) / vt).exp();
-            }
-        }
-        Ok(sum)
-    }
-
-    /// Potential of the last solve, V (nodes of the cross-section problem).
-    pub fn potential(&self) -> &[f64] {
-        &self.psi
-    }
-
-    /// Channel-carrier density (nm^-3) at node `k` for the last solve at quasi-Fermi level `v`.
-    pub fn carrier_density(&self, k: usize, v: f64) -> f64 {
-        let si = self.section.problem.silicon;
-        si.ni * (self.sign * (self.psi[k] - v) / si.vt).exp()
-    }
-}
-
-impl PaoSahDevice for FinChannel {
-    /// Line density divided by the device width W ([`WIDTH_DEFINITION`]), nm^-2.
-    fn sheet_density(&mut self, vgs: f64, v: f64) -> Result<f64, LongChannelError> {
-        Ok(self.line_density(vgs, v)? / self.section.width_nm)
-    }
-
-    fn mobility_cm2_per_vs(&self) -> f64 {
-        self.mobility_cm2_per_vs
-    }
-
-    fn newton_steps(&self) -> usize {
-        self.steps
-    }
 }
 
 #[cfg(test)]

@@ -12,14 +12,16 @@
 //! `dx/N` is integrated exactly for N log-linear between nodes, and `1 - F`
 //! is accumulated from the drain side so that no digits are lost near the drain.
 
+use crate::device::Polarity;
 use crate::discretize::Problem;
-use crate::physics::{CM2_TO_NM2, Q_C};
+use crate::physics::Q_C;
 use crate::solve::QuasiFermi;
 
 /// Channel carrier density integrated over each column, nm^-2 (per nm of width, per nm of length).
-pub fn column_densities(p: &Problem, psi: &[f64], sign: f64) -> Vec<f64> {
+pub fn column_densities(p: &Problem, psi: &[f64], polarity: Polarity) -> Vec<f64> {
     let ni = p.silicon.ni;
-    let vt = p.silicon.vt;
+    let vt = p.silicon.thermal_v;
+    let sign = polarity.sign();
     (0..p.nx)
         .map(|i| p.column_integral(psi, i, |v| ni * (sign * v / vt).exp()))
         .collect()
@@ -52,11 +54,17 @@ pub struct Transport {
 }
 
 /// Computes the channel carrier's quasi-Fermi level and current for drain
-/// bias `vds` (the user's sign) with mobility `mobility_cm2` (cm^2/Vs).
-/// `width_factor` multiplies the column densities (1 for a full cross-section).
-pub fn quasi_fermi(p: &Problem, psi: &[f64], sign: f64, vds: f64, mobility_cm2: f64) -> Transport {
-    let vt = p.silicon.vt;
-    let dens = column_densities(p, psi, sign);
+/// bias `vds` (the user's sign) with mobility `mobility_nm2` (nm^2/(V s)).
+pub fn quasi_fermi(
+    p: &Problem,
+    psi: &[f64],
+    polarity: Polarity,
+    vds: f64,
+    mobility_nm2: f64,
+) -> Transport {
+    let vt = p.silicon.thermal_v;
+    let sign = polarity.sign();
+    let dens = column_densities(p, psi, polarity);
     let seg = segment_resistances(p, &dens);
     let n = p.nx;
     let mut from_source = vec![0.0; n];
@@ -76,7 +84,7 @@ pub fn quasi_fermi(p: &Problem, psi: &[f64], sign: f64, vds: f64, mobility_cm2: 
         })
         .collect();
     // A/nm of width -> A/um.
-    let i_per_nm = Q_C * mobility_cm2 * CM2_TO_NM2 * vt * (1.0 - e) / total;
+    let i_per_nm = Q_C * mobility_nm2 * vt * (1.0 - e) / total;
     Transport {
         phi,
         current_a_per_um: sign * i_per_nm * 1e3,
@@ -84,9 +92,9 @@ pub fn quasi_fermi(p: &Problem, psi: &[f64], sign: f64, vds: f64, mobility_cm2: 
 }
 
 /// Quasi-Fermi levels of both carriers: the channel carrier from `t`, the other at 0 V.
-pub fn levels(t: &Transport, sign: f64) -> QuasiFermi {
+pub fn levels(t: &Transport, polarity: Polarity) -> QuasiFermi {
     let zeros = vec![0.0; t.phi.len()];
-    if sign > 0.0 {
+    if polarity == Polarity::N {
         QuasiFermi {
             phi_n: t.phi.clone(),
             phi_p: zeros,

@@ -1,5 +1,8 @@
 //! Figures (PNG and SVG, plotters with the embedded DejaVu font; no system fonts).
 //!
+//! Drawing only: every curve comes from the data handed in (the theory
+//! curves from the columns the sweep stored beside the solved figures).
+//!
 //! Entry points: [`sweep_plots`] (everything a sweep file holds),
 //! [`device_plots`] (one solved device), and the single figures
 //! [`figure_vs_length`], [`iv_plot`], [`map_plot`], [`band_plot`].
@@ -13,8 +16,8 @@ use std::sync::OnceLock;
 use plotters::coord::Shift;
 use plotters::prelude::*;
 
-use crate::io::{AxisValue, CurveData, MapData, SweepFile};
-use crate::run::DeviceSolution;
+use crate::evaluate::DeviceSolution;
+use crate::io::{series_labels, CurveData, MapData, SweepFile};
 
 /// The font family registered from the embedded DejaVu Sans.
 pub const FONT: &str = "sans-serif";
@@ -56,16 +59,6 @@ pub enum PlotError {
 pub struct Series {
     pub label: String,
     pub points: Vec<(f64, f64)>,
-}
-
-/// Optional theory curves drawn (dashed) beside the solved figures against L_g:
-/// each series is `(L_g nm, value)` in the unit of its figure; a theory series
-/// whose label equals a solved series' label takes its colour.
-#[derive(Debug, Clone, Default, PartialEq)]
-pub struct Theory {
-    pub vt_rolloff_mv: Vec<Series>,
-    pub dibl_mv_per_v: Vec<Series>,
-    pub ss_mv_per_dec: Vec<Series>,
 }
 
 fn fonts() -> Result<(), PlotError> {
@@ -568,78 +561,11 @@ fn per_point(
     Ok(out)
 }
 
-/// The series label of each row of a sweep file in the figures against L_g:
-/// the values of every axis other than `geometry.gate_length_nm` ("solved"
-/// when there is none). When one text axis alone tells the series apart (e.g.
-/// `architecture` zipped with the doping and work function that go with it),
-/// that axis' value is the whole label. Theory series named with these labels
-/// take the colour of the solved series.
-pub fn series_labels(f: &SweepFile) -> Vec<String> {
-    let others: Vec<usize> = f
-        .axes
-        .iter()
-        .enumerate()
-        .filter(|(_, a)| a.key != "geometry.gate_length_nm")
-        .map(|(k, _)| k)
-        .collect();
-    if others.is_empty() {
-        return vec!["solved".into(); f.rows.len()];
-    }
-    let full: Vec<String> = f
-        .rows
-        .iter()
-        .map(|r| {
-            others
-                .iter()
-                .map(|&a| {
-                    let key = f.axes[a].key.rsplit('.').next().unwrap_or("");
-                    match &r.axis[a] {
-                        AxisValue::Text(s) => s.clone(),
-                        AxisValue::Number(x) => format!("{key}={x}"),
-                    }
-                })
-                .collect::<Vec<_>>()
-                .join(", ")
-        })
-        .collect();
-    // A text axis that maps one-to-one onto the full labels names the series alone.
-    let text_of = |k: usize, a: usize| match &f.rows[k].axis[a] {
-        AxisValue::Text(s) => Some(s.clone()),
-        AxisValue::Number(_) => None,
-    };
-    let one_to_one = |a: usize| {
-        let mut pairs = std::collections::BTreeMap::new();
-        let mut back = std::collections::BTreeMap::new();
-        for (k, l) in full.iter().enumerate() {
-            let Some(t) = text_of(k, a) else {
-                return false;
-            };
-            if pairs.insert(t.clone(), l).is_some_and(|p| p != l)
-                || back.insert(l, t.clone()).is_some_and(|b| b != t)
-            {
-                return false;
-            }
-        }
-        true
-    };
-    if others.len() > 1 {
-        if let Some(&a) = others
-            .iter()
-            .find(|&&a| !f.axes[a].numeric && one_to_one(a))
-        {
-            return (0..f.rows.len())
-                .map(|k| text_of(k, a).unwrap_or_default())
-                .collect();
-        }
-    }
-    full
-}
-
 /// Every figure a sweep file supports, into `dir`: `vt_rolloff`, `dibl`, `ss`
 /// against L_g (one series per combination of the other axes, theory beside
 /// them when given), and for each point holding a map (or the first ok point)
 /// `point_NNNNNN_iv`, `_potential_map`, `_band`.
-pub fn sweep_plots(f: &SweepFile, dir: &Path, theory: &Theory) -> Result<Vec<PathBuf>, PlotError> {
+pub fn sweep_plots(f: &SweepFile, dir: &Path) -> Result<Vec<PathBuf>, PlotError> {
     let lg = f
         .figure("gate_length_nm")
         .ok_or_else(|| PlotError::Empty("no gate_length_nm column".into()))?;
@@ -668,40 +594,42 @@ pub fn sweep_plots(f: &SweepFile, dir: &Path, theory: &Theory) -> Result<Vec<Pat
         out
     };
     let mut files = Vec::new();
-    for (stem, title, y, name, th) in [
+    for (stem, title, y, name, theory) in [
         (
             "vt_rolloff",
             "Threshold roll-off",
             "V_t,lin - V_t,long (mV)",
             "vt_rolloff_mV",
-            &theory.vt_rolloff_mv,
+            "theory_rolloff_mV",
         ),
         (
             "dibl",
             "Drain-induced barrier lowering",
             "DIBL (mV/V)",
             "dibl_mV_per_V",
-            &theory.dibl_mv_per_v,
+            "theory_dibl_mV_per_V",
         ),
         (
             "ss",
             "Subthreshold swing at V_DS,sat",
             "SS (mV/dec)",
             "ss_sat_mV_per_dec",
-            &theory.ss_mv_per_dec,
+            "theory_ss_mV_per_dec",
         ),
     ] {
         let solved = series_of(name);
+        // The theory stored beside the data, one series per solved series.
+        let th = series_of(theory);
         if solved.is_empty() && th.is_empty() {
             continue;
         }
-        files.extend(figure_vs_length(dir, stem, title, y, &solved, th)?);
+        files.extend(figure_vs_length(dir, stem, title, y, &solved, &th)?);
     }
     let mut chosen: Vec<usize> = (0..f.rows.len())
         .filter(|&k| f.rows[k].map.is_some())
         .collect();
     if chosen.is_empty() {
-        chosen.extend((0..f.rows.len()).find(|&k| f.rows[k].status == "ok"));
+        chosen.extend((0..f.rows.len()).find(|&k| f.rows[k].status.is_ok()));
     }
     for k in chosen {
         let r = &f.rows[k];
@@ -716,76 +644,4 @@ pub fn sweep_plots(f: &SweepFile, dir: &Path, theory: &Theory) -> Result<Vec<Pat
         )?);
     }
     Ok(files)
-}
-
-/// Theory curves for every series of a sweep file (one series per
-/// combination of the axes other than the gate length, labelled as
-/// [`series_labels`]): Liu et al. (IEEE TED 40(1), 86, 1993) with the numeric
-/// natural length, from one [`crate::theory::short_channel::theory_inputs`] per
-/// series (the first point's device: nothing in it depends on L_g), evaluated at
-/// every gate length the series holds. Series whose theory fails are left out
-/// and named in the returned notes.
-pub fn theory_for_sweep(f: &SweepFile, plan: &crate::sweep::Plan) -> (Theory, Vec<String>) {
-    use rayon::prelude::*;
-    let labels = series_labels(f);
-    let mut order: Vec<String> = Vec::new();
-    for l in &labels {
-        if !order.contains(l) {
-            order.push(l.clone());
-        }
-    }
-    let results: Vec<(
-        String,
-        Result<Vec<crate::theory::short_channel::ShortChannelEstimate>, String>,
-    )> = order
-        .par_iter()
-        .map(|label| {
-            let rows: Vec<&crate::sweep::plan::PlanPoint> = f
-                .rows
-                .iter()
-                .zip(&labels)
-                .filter(|(_, l)| *l == label)
-                .filter_map(|(r, _)| plan.points.get(r.index))
-                .collect();
-            let Some(first) = rows.first() else {
-                return (label.clone(), Err("no points".to_string()));
-            };
-            let inputs = match crate::theory::short_channel::theory_inputs(&first.scenario) {
-                Ok(i) => i,
-                Err(e) => return (label.clone(), Err(e.to_string())),
-            };
-            let mut lengths: Vec<f64> = rows
-                .iter()
-                .map(|p| p.scenario.geometry.gate_length_nm)
-                .collect();
-            lengths.sort_by(f64::total_cmp);
-            lengths.dedup();
-            (
-                label.clone(),
-                Ok(lengths.iter().filter_map(|&l| inputs.at(l).ok()).collect()),
-            )
-        })
-        .collect();
-    let mut theory = Theory::default();
-    let mut notes = Vec::new();
-    for (label, r) in results {
-        match r {
-            Ok(est) => {
-                let series =
-                    |g: &dyn Fn(&crate::theory::short_channel::ShortChannelEstimate) -> f64| {
-                        Series {
-                            label: label.clone(),
-                            points: est.iter().map(|e| (e.gate_length_nm, g(e))).collect(),
-                        }
-                    };
-                theory
-                    .vt_rolloff_mv
-                    .push(series(&|e| 1000.0 * e.roll_off_lin_v));
-                theory.dibl_mv_per_v.push(series(&|e| e.dibl_mv_per_v));
-                theory.ss_mv_per_dec.push(series(&|e| e.ss_mv_per_dec));
-            }
-            Err(e) => notes.push(format!("no theory curve for {label}: {e}")),
-        }
-    }
-    (theory, notes)
 }

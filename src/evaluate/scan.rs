@@ -1,13 +1,16 @@
 //! Gate-length scans: the 2D solve at each length beside the theory from the
 //! natural length (planar devices), or the theory alone (fins and wires).
+//! The length-independent [`Reference`] is solved once for the whole scan.
 
 use rayon::prelude::*;
 use serde::Serialize;
 
-use crate::device::Scenario;
-use crate::run::{run_device, Observer, CAUTION};
-use crate::theory::short_channel::{fit_lambda_from_dibl, theory_inputs_with_lambda, LambdaFit};
-use crate::theory::{lambda_report, TheoryError};
+use super::device::evaluate;
+use super::reference::{Reference, ReferenceError};
+use super::report::{Method, Status, CAUTION};
+use crate::device::{Architecture, Scenario};
+use crate::progress::Observer;
+use crate::theory::short_channel::{fit_lambda_from_dibl, LambdaFit};
 
 /// One gate length of a scan.
 #[derive(Debug, Clone, PartialEq, Serialize)]
@@ -33,16 +36,17 @@ pub struct ScanRow {
     pub theory_ss_mv_per_dec: Option<f64>,
     pub lg_over_lambda: f64,
     /// "ok" or why something is missing.
-    pub status: String,
+    pub status: Status,
 }
 
 /// A whole scan.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct ScanReport {
     pub name: String,
-    pub architecture: String,
-    /// "2d-solve and theory" (planar) or "theory only" (fins and wires).
-    pub method: String,
+    pub architecture: Architecture,
+    /// How the rows' figures were obtained ("2d-solve": the solve with the
+    /// theory beside it; "theory": fins and wires, the theory alone).
+    pub method: Method,
     pub lambda_numeric_nm: f64,
     pub lambda_dielectric_path_nm: Option<f64>,
     pub lambda_closed_forms: std::collections::BTreeMap<String, f64>,
@@ -70,7 +74,9 @@ pub enum ScanError {
     #[error(transparent)]
     Device(#[from] crate::device::DeviceError),
     #[error(transparent)]
-    Theory(#[from] TheoryError),
+    Reference(#[from] ReferenceError),
+    #[error("the natural length or long-channel reference failed: {0}")]
+    Theory(String),
 }
 
 /// Solves (planar) or predicts (fins and wires) each gate length, in parallel.
@@ -86,17 +92,21 @@ pub fn scan(
         .iter()
         .map(|&l| s.with_gate_length(l))
         .collect::<Result<_, _>>()?;
-    let lam = lambda_report(s)?;
+    let reference = Reference::of(s, observer)?;
+    let lam = reference
+        .lambda
+        .clone()
+        .map_err(|e| ScanError::Theory(e.to_string()))?;
+    let inputs = reference.theory.clone().map_err(ScanError::Theory)?;
     let lambda = lam.lambda_numeric_nm;
-    let inputs = theory_inputs_with_lambda(s, lambda)?;
-    let theory = |l: f64| inputs.at(l);
     let rows: Vec<ScanRow> = scenarios
         .par_iter()
         .map(|sc| {
             let l = sc.geometry.gate_length_nm;
-            let mut status = Vec::new();
-            let th = theory(l)
-                .map_err(|e| status.push(format!("theory: {e}")))
+            let mut problems = Vec::new();
+            let th = inputs
+                .at(l)
+                .map_err(|e| problems.push(format!("theory: {e}")))
                 .ok();
             let mut row = ScanRow {
                 gate_length_nm: l,
@@ -109,27 +119,23 @@ pub fn scan(
                 theory_dibl_mv_per_v: th.as_ref().map(|t| t.dibl_mv_per_v),
                 theory_ss_mv_per_dec: th.as_ref().map(|t| t.ss_mv_per_dec),
                 lg_over_lambda: l / lambda,
-                status: String::new(),
+                status: Status::Ok,
             };
             if sc.architecture.is_planar() {
-                match run_device(sc, observer) {
-                    Ok(sol) => {
-                        let r = sol.report;
+                match evaluate(sc, &reference, observer) {
+                    Ok(ev) => {
+                        let r = ev.report;
                         row.vt_lin_v = r.vt_lin_v;
                         row.vt_rolloff_mv = r.vt_rolloff_mv;
                         row.dibl_mv_per_v = r.dibl_mv_per_v;
                         row.ss_lin_mv_per_dec = r.ss_lin_mv_per_dec;
                         row.barrier_lowering_mev = r.barrier_lowering_mev;
-                        status.extend(r.problems);
+                        problems.extend(r.problems);
                     }
-                    Err(e) => status.push(format!("solve: {e}")),
+                    Err(e) => problems.push(format!("solve: {e}")),
                 }
             }
-            row.status = if status.is_empty() {
-                "ok".into()
-            } else {
-                status.join("; ")
-            };
+            row.status = Status::from_problems(&problems);
             row
         })
         .collect();
@@ -148,8 +154,12 @@ pub fn scan(
     let lambda_fitted_barrier = fit(&|r| r.barrier_lowering_mev);
     Ok(ScanReport {
         name: s.name.clone(),
-        architecture: s.architecture.name().into(),
-        method: if s.architecture.is_planar() { "2d-solve and theory".into() } else { "theory only".into() },
+        architecture: s.architecture,
+        method: if s.architecture.is_planar() {
+            Method::TwoDSolve
+        } else {
+            Method::Theory
+        },
         lambda_numeric_nm: lambda,
         lambda_dielectric_path_nm: lam.lambda_dielectric_path_nm,
         lambda_closed_forms: lam.lambda_closed_forms,
@@ -167,59 +177,4 @@ pub fn scan(
         rows,
         caution: CAUTION.into(),
     })
-}
-
-/// Console table of a scan.
-pub fn render_text(r: &ScanReport) -> String {
-    let f = |v: Option<f64>, d: usize| {
-        v.map(|x| format!("{x:.d$}"))
-            .unwrap_or_else(|| "n/a".into())
-    };
-    let mut o = format!(
-        "{} ({}): {}\n  lambda numeric {:.2} nm{}; closed forms: {}\n",
-        r.name,
-        r.architecture,
-        r.method,
-        r.lambda_numeric_nm,
-        r.lambda_dielectric_path_nm
-            .map(|d| format!(" (dielectric path {d:.2} nm)"))
-            .unwrap_or_default(),
-        r.lambda_closed_forms
-            .iter()
-            .map(|(k, v)| format!("{k} {v:.2} nm"))
-            .collect::<Vec<_>>()
-            .join(", ")
-    );
-    for (what, fit) in [
-        ("barrier lowering", &r.lambda_fitted_barrier),
-        ("DIBL", &r.lambda_fitted),
-    ] {
-        if let Some(fit) = fit {
-            o.push_str(&format!(
-                "  lambda fitted to the solved {what}: {:.2} nm (R^2 {:.4}, {} lengths)\n",
-                fit.lambda_nm, fit.r_squared, fit.points
-            ));
-        }
-    }
-    o.push_str(&format!(
-        "  V_t,long {:.4} V, SS_long {:.1} mV/dec, theory barrier V_bi - phi_s {:.3} V\n\n",
-        r.vt_long_v, r.ss_long_mv_per_dec, r.theory_barrier_v
-    ));
-    o.push_str("   L_g nm  L_g/lambda | roll-off mV  theory | DIBL mV/V  theory | SS mV/dec  theory | status\n");
-    for row in &r.rows {
-        o.push_str(&format!(
-            "  {:7.1}  {:10.2} | {:>11} {:>7} | {:>9} {:>7} | {:>9} {:>7} | {}\n",
-            row.gate_length_nm,
-            row.lg_over_lambda,
-            f(row.vt_rolloff_mv, 1),
-            f(row.theory_rolloff_mv, 1),
-            f(row.dibl_mv_per_v, 1),
-            f(row.theory_dibl_mv_per_v, 1),
-            f(row.ss_lin_mv_per_dec, 1),
-            f(row.theory_ss_mv_per_dec, 1),
-            row.status
-        ));
-    }
-    o.push_str(&format!("\nTheory: Liu et al., IEEE TED 40(1), 86, 1993, with the numeric natural length.\nCaution: {}\n", r.caution));
-    o
 }

@@ -1,6 +1,6 @@
-//! Figures from I_D-V_G curves and potentials (MODEL.md section 5).
+//! Figures from I_D-V_G curves (MODEL.md section 5): V_t, SS, DIBL.
 
-use crate::discretize::Problem;
+use crate::solve::GateRamp;
 
 /// Why a figure could not be extracted.
 #[derive(Debug, Clone, PartialEq, thiserror::Error)]
@@ -104,55 +104,38 @@ pub fn dibl(vt_lin: f64, vt_sat: f64, vds_lin: f64, vds_sat: f64) -> f64 {
     1000.0 * (vt_lin - vt_sat) / (vds_sat - vds_lin)
 }
 
-/// The leakiest path's barrier.
-#[derive(Debug, Clone, Copy, PartialEq)]
-pub struct Barrier {
-    /// Band edge of the channel carrier relative to the source Fermi level, eV.
-    pub height_ev: f64,
-    /// Depth of that row below the top silicon surface, nm.
-    pub depth_nm: f64,
-    /// Position of the barrier's top along the channel, nm.
-    pub x_nm: f64,
-}
-
-/// Channel-carrier band edge relative to the source Fermi level at potential
-/// `psi` (midgap approximation): E_g/2 - s psi (s = +1 electrons, -1 holes).
-pub fn band_edge_ev(p: &Problem, psi: f64, sign: f64) -> f64 {
-    0.5 * p.silicon.eg_ev - sign * psi
-}
-
-/// For each semiconductor row the barrier is the maximum band edge over x;
-/// the device barrier is the lowest of these (the leakiest path).
-pub fn barrier(p: &Problem, psi: &[f64], sign: f64) -> Barrier {
-    let mut best = Barrier {
-        height_ev: f64::INFINITY,
-        depth_nm: 0.0,
-        x_nm: 0.0,
-    };
-    for j in 0..p.ny {
-        let mut top = f64::NEG_INFINITY;
-        let mut x_top = 0.0;
-        let mut any = false;
-        for i in 0..p.nx {
-            let k = i + j * p.nx;
-            if p.semi_area[k] > 0.0 {
-                any = true;
-                let e = band_edge_ev(p, psi[k], sign);
-                if e > top {
-                    top = e;
-                    x_top = p.x.nodes[i];
-                }
-            }
-        }
-        if any && top < best.height_ev {
-            best = Barrier {
-                height_ev: top,
-                depth_nm: p.y.nodes[j],
-                x_nm: x_top,
-            };
-        }
+/// Threshold voltage and SS of one gate ramp against the threshold current
+/// `target` (A/um); an error names the first bias point that did not converge.
+pub fn ramp_figures(ramp: &GateRamp, target: f64) -> Result<(f64, f64), ExtractError> {
+    if let Some(bad) = ramp.points.iter().find(|p| p.current_a_per_um.is_none()) {
+        return Err(ExtractError::NotConverged {
+            vgs_v: bad.vgs_v,
+            vds_v: ramp.vds_v,
+            reason: bad.report.reason(),
+        });
     }
-    best
+    let v: Vec<f64> = ramp.points.iter().map(|p| p.vgs_v).collect();
+    let i: Vec<f64> = ramp
+        .points
+        .iter()
+        .filter_map(|p| p.current_a_per_um.map(f64::abs))
+        .collect();
+    let c = Curve {
+        vgs_v: &v,
+        id_abs: &i,
+    };
+    Ok((threshold(&c, target)?, swing(&c, target)?))
+}
+
+/// A gate ramp's (gate voltage, current) pairs in ascending gate voltage.
+pub fn ascending(ramp: &GateRamp) -> (Vec<f64>, Vec<Option<f64>>) {
+    let mut pts: Vec<(f64, Option<f64>)> = ramp
+        .points
+        .iter()
+        .map(|p| (p.vgs_v, p.current_a_per_um))
+        .collect();
+    pts.sort_by(|a, b| a.0.total_cmp(&b.0));
+    pts.into_iter().unzip()
 }
 
 #[cfg(test)]

@@ -1,13 +1,7 @@
-//! Human-readable summaries of results (the console consumer of reports).
+//! The text of one device's report (`gatehold run`) and its curves as CSV.
 
-use crate::run::DeviceReport;
-
-fn fmt(v: Option<f64>, digits: usize) -> String {
-    match v {
-        Some(x) => format!("{x:.digits$}"),
-        None => "n/a".into(),
-    }
-}
+use super::fmt;
+use crate::evaluate::DeviceReport;
 
 /// A readable summary of one device, with units and the standing caution.
 pub fn device_text(r: &DeviceReport) -> String {
@@ -19,10 +13,7 @@ pub fn device_text(r: &DeviceReport) -> String {
         "{} ({} {}-channel, {} K)\n",
         r.name, r.architecture, r.polarity, r.temperature_k
     ));
-    o.push_str(match r.method.as_str() {
-        "theory" => "  method: long-channel cross-section solve; short-channel figures are THEORY (Liu et al. 1993 with the numeric natural length)\n",
-        _ => "  method: 2D along-channel nonlinear Poisson solve at both drain biases\n",
-    });
+    o.push_str(&format!("  method: {}\n", r.method.describe()));
     line(
         &mut o,
         "gate length L_g",

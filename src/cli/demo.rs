@@ -1,0 +1,104 @@
+//! `gatehold demo`: the built-in scenario through the ordinary path, i.e. the
+//! plan (data, [`gatehold::demo`]) into a sweep file, its plots, and the
+//! summary of the shortest compliant length per architecture.
+
+use std::path::PathBuf;
+use std::time::Instant;
+
+use anyhow::Context;
+use clap::Args;
+
+use super::exit::Exit;
+use super::progress::Bar;
+use gatehold::demo::{self, DemoOptions, SUMMARY_FILE, SWEEP_FILE};
+use gatehold::evaluate::Method;
+use gatehold::render::summary::{demo_text, DemoSummary};
+use gatehold::sweep::{self, SweepOptions};
+
+/// `gatehold demo [--out DIR]`
+#[derive(Debug, Clone, Args)]
+pub struct DemoArgs {
+    /// Output folder for sweep.h5, the figures and summary.txt (created if missing; its files are overwritten).
+    #[arg(long, short, default_value = "gatehold-demo")]
+    pub out: PathBuf,
+    /// Points solved at once (default: all cores).
+    #[arg(long, short, default_value_t = 0)]
+    pub jobs: usize,
+    /// Screening target on DIBL, mV/V (default: the plan's 100; common practice, not a standard).
+    #[arg(long, value_name = "MV_PER_V")]
+    pub dibl_max: Option<f64>,
+    /// Screening target on SS, mV/dec (default: the plan's 80; common practice, not a standard).
+    #[arg(long, value_name = "MV_PER_DEC")]
+    pub ss_max: Option<f64>,
+    /// Gate lengths in nm, comma separated (default: the plan's 14 to 60 nm).
+    #[arg(long, value_delimiter = ',', value_name = "NM,NM,...")]
+    pub lengths: Option<Vec<f64>>,
+    /// No progress bar.
+    #[arg(long, short)]
+    pub quiet: bool,
+}
+
+/// Runs `gatehold demo`: prints the summary on stdout.
+pub fn demo(args: &DemoArgs) -> anyhow::Result<Exit> {
+    let t0 = Instant::now();
+    let options = DemoOptions {
+        lengths_nm: args.lengths.clone(),
+        dibl_max_mv_per_v: args.dibl_max,
+        ss_max_mv_per_dec: args.ss_max,
+    };
+    let plan = demo::plan(&options).context("demo plan")?;
+    std::fs::create_dir_all(&args.out)
+        .with_context(|| format!("cannot create {}", args.out.display()))?;
+    let sweep_file = args.out.join(SWEEP_FILE);
+    let opts = SweepOptions {
+        jobs: args.jobs,
+        overwrite: true,
+        command_line: std::env::args().collect::<Vec<_>>().join(" "),
+        ..SweepOptions::default()
+    };
+    let bar = Bar::new("demo ", args.quiet);
+    let run = sweep::run_sweep(&plan, &sweep_file, &opts, &bar);
+    bar.0.finish_and_clear();
+    let run = run.context("demo sweep")?;
+    let file = gatehold::io::hdf5::read_sweep(&sweep_file)?;
+    let plots = gatehold::plot::sweep_plots(&file, &args.out).context("demo plots")?;
+    let series = sweep::shortest::per_series(&file, &plan.criteria)
+        .into_iter()
+        .map(|o| {
+            let planar = plan.points[file.rows[o.rows[0]].index]
+                .scenario
+                .architecture
+                .is_planar();
+            let method = if planar {
+                Method::TwoDSolve
+            } else {
+                Method::Theory
+            };
+            (o, method)
+        })
+        .collect();
+    let mut lengths: Vec<f64> = plan
+        .points
+        .iter()
+        .map(|p| p.scenario.geometry.gate_length_nm)
+        .collect();
+    lengths.sort_by(f64::total_cmp);
+    lengths.dedup();
+    let summary_file = args.out.join(SUMMARY_FILE);
+    let summary = DemoSummary {
+        lengths_nm: lengths,
+        criteria: plan.criteria.clone(),
+        points: file.rows.len(),
+        failed_points: run.failed,
+        elapsed_s: t0.elapsed().as_secs_f64(),
+        series,
+        sweep_file,
+        figure_files: plots.len(),
+        summary_file: summary_file.clone(),
+    };
+    let text = demo_text(&summary);
+    std::fs::write(&summary_file, &text)
+        .with_context(|| format!("writing {}", summary_file.display()))?;
+    print!("{text}");
+    Ok(Exit::missing_if(run.failed > 0))
+}

@@ -1,0 +1,106 @@
+//! The command line: each command's handler, progress on stderr, and the
+//! exit codes ([`exit::Exit`]). Only the binary uses this module.
+
+pub mod demo;
+pub mod device;
+pub mod exit;
+pub mod progress;
+pub mod sweep;
+
+use std::path::PathBuf;
+
+use clap::{Parser, Subcommand};
+
+use exit::Exit;
+
+#[derive(Parser)]
+#[command(
+    name = "gatehold",
+    version,
+    about = "How short can the gate be? 2D electrostatic integrity of short-gate transistors (screening level)"
+)]
+pub struct Cli {
+    #[command(subcommand)]
+    command: Command,
+}
+
+#[derive(Subcommand)]
+enum Command {
+    /// Solve one device: V_t, SS, DIBL, barrier lowering, roll-off.
+    Run {
+        /// Device file (TOML).
+        device: PathBuf,
+        /// Print one JSON object instead of the summary.
+        #[arg(long)]
+        json: bool,
+        /// Write the I_D-V_G curves to this CSV file.
+        #[arg(long, value_name = "FILE.csv")]
+        curves: Option<PathBuf>,
+        /// Write plots (I_D-V_G, potential map, band along the leakiest path) into this folder.
+        #[arg(long, value_name = "DIR")]
+        plots: Option<PathBuf>,
+        /// No progress on stderr.
+        #[arg(long)]
+        quiet: bool,
+    },
+    /// Natural length of the device's stack or cross-section, numeric beside the closed forms.
+    Lambda {
+        /// Device file (TOML).
+        device: PathBuf,
+        /// Print one JSON object instead of the text.
+        #[arg(long)]
+        json: bool,
+    },
+    /// Solve (planar) or predict (fins, wires) several gate lengths, beside the theory.
+    Scan {
+        /// Device file (TOML).
+        device: PathBuf,
+        /// Gate lengths in nm, comma separated.
+        #[arg(long, value_delimiter = ',', required = true, value_name = "NM,NM,...")]
+        lengths: Vec<f64>,
+        /// Print one JSON object instead of the table.
+        #[arg(long)]
+        json: bool,
+        /// Worker threads (default: all cores).
+        #[arg(long)]
+        jobs: Option<usize>,
+    },
+    /// Run a plan of geometries in parallel into one HDF5 file.
+    Sweep(sweep::SweepArgs),
+    /// Join shard files of one plan into one HDF5 file.
+    Merge(sweep::MergeArgs),
+    /// Plots from a sweep file: roll-off, DIBL and SS against L_g, I_D-V_G, maps.
+    Plot(sweep::PlotArgs),
+    /// Built-in demonstration: an invented node built four ways, swept over gate length, with plots.
+    Demo(demo::DemoArgs),
+    /// Print a commented device file to start from.
+    Template {
+        /// bulk | thin-body | double-gate | tri-gate | gate-all-around | capped-fin
+        architecture: String,
+    },
+}
+
+/// Runs the parsed command.
+pub fn run(cli: Cli) -> anyhow::Result<Exit> {
+    match cli.command {
+        Command::Run {
+            device,
+            json,
+            curves,
+            plots,
+            quiet,
+        } => device::run(&device, json, curves.as_ref(), plots.as_ref(), quiet),
+        Command::Lambda { device, json } => device::lambda(&device, json),
+        Command::Scan {
+            device,
+            lengths,
+            json,
+            jobs,
+        } => device::scan_lengths(&device, &lengths, json, jobs),
+        Command::Sweep(a) => sweep::sweep(&a),
+        Command::Merge(a) => sweep::merge(&a),
+        Command::Plot(a) => sweep::plot(&a),
+        Command::Demo(a) => demo::demo(&a),
+        Command::Template { architecture } => device::template(&architecture),
+    }
+}

@@ -1,0 +1,331 @@
+//! One whole device at one gate length: planar devices get the 2D
+//! along-channel solve at both drain biases; fins and wires the theory from
+//! their cross-section. Both come out as one [`DeviceReport`], built in one
+//! place ([`build_report`]) with the Liu et al. (IEEE TED 40(1), 86, 1993)
+//! theory beside the figures.
+
+use super::reference::{Reference, ReferenceError};
+use super::report::{DeviceReport, Method, CAUTION};
+use crate::device::Scenario;
+use crate::extract::{self, ascending, ramp_figures, Barrier};
+use crate::progress::{Observer, SolveKind};
+use crate::solve::{DeviceSolver, GateRamp, PoissonSolver, SolveError};
+use crate::structure::{along_channel, AlongChannel, DopingProfile};
+use crate::theory::closed_form;
+
+/// Failures that stop a whole evaluation (a single bias point failing does not).
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+pub enum EvaluateError {
+    #[error(transparent)]
+    Solve(#[from] SolveError),
+    #[error(transparent)]
+    Reference(#[from] ReferenceError),
+    #[error("the reference passed in belongs to another cross-section than device {0}")]
+    WrongReference(String),
+}
+
+/// A planar device's solution: the report plus what maps and band plots need.
+#[derive(Debug, Clone)]
+pub struct DeviceSolution {
+    pub report: DeviceReport,
+    pub structure: AlongChannel,
+    pub lin: GateRamp,
+    pub sat: GateRamp,
+    pub barrier_lin: Option<Barrier>,
+    pub barrier_sat: Option<Barrier>,
+}
+
+/// The result of one device of any architecture.
+#[derive(Debug, Clone)]
+pub struct Evaluation {
+    pub report: DeviceReport,
+    /// The 2D solution (planar devices only).
+    pub solution: Option<DeviceSolution>,
+}
+
+/// What differs between a solved and a theory device report; everything
+/// else [`build_report`] takes from the scenario and the reference.
+struct Figures {
+    method: Method,
+    vt_lin_v: Option<f64>,
+    vt_sat_v: Option<f64>,
+    ss_lin_mv_per_dec: Option<f64>,
+    ss_sat_mv_per_dec: Option<f64>,
+    barrier_lin: Option<Barrier>,
+    barrier_sat: Option<Barrier>,
+    converged: bool,
+    nodes: usize,
+    unknowns: usize,
+    newton_steps: usize,
+    factorisations: usize,
+    bias_points: usize,
+    vgs_v: Vec<f64>,
+    id_lin: Vec<Option<f64>>,
+    id_sat: Vec<Option<f64>>,
+    current_unit: String,
+    problems: Vec<String>,
+    warnings: Vec<String>,
+}
+
+/// Evaluates `s` with the length-independent `reference` of its cross-section
+/// (from [`Reference::of`] on any scenario of the same cross-section).
+pub fn evaluate(
+    s: &Scenario,
+    reference: &Reference,
+    observer: &dyn Observer,
+) -> Result<Evaluation, EvaluateError> {
+    if s.architecture.is_planar() {
+        let sol = solve_planar(s, reference, observer)?;
+        Ok(Evaluation {
+            report: sol.report.clone(),
+            solution: Some(sol),
+        })
+    } else {
+        Ok(Evaluation {
+            report: fin_report(s, reference),
+            solution: None,
+        })
+    }
+}
+
+/// [`evaluate`] with the reference computed here (one device alone).
+pub fn evaluate_alone(s: &Scenario, observer: &dyn Observer) -> Result<Evaluation, EvaluateError> {
+    let reference = Reference::of(s, observer)?;
+    evaluate(s, &reference, observer)
+}
+
+/// Threshold current per um of width for the criterion I_cc W / L_g, A/um.
+fn threshold_current(s: &Scenario) -> f64 {
+    s.extraction.current_criterion_a / (s.geometry.gate_length_nm * 1e-3)
+}
+
+/// The 2D along-channel solve: both drain ramps (on two threads) and every figure.
+pub fn solve_planar(
+    s: &Scenario,
+    reference: &Reference,
+    observer: &dyn Observer,
+) -> Result<DeviceSolution, EvaluateError> {
+    let structure = along_channel(s);
+    let solver = PoissonSolver::new(&structure.problem)?;
+    let unknowns = solver.unknowns();
+    let solver2 = solver.clone();
+    let (lin, sat) = rayon::join(
+        || DeviceSolver::new(s, &structure, solver).gate_ramp(s.bias.vds_lin_v, observer),
+        || DeviceSolver::new(s, &structure, solver2).gate_ramp(s.bias.vds_sat_v, observer),
+    );
+    let (lin, sat) = (lin?, sat?);
+    observer.solved(SolveKind::GateRamp);
+    observer.solved(SolveKind::GateRamp);
+    let target = threshold_current(s);
+    let mut problems = Vec::new();
+    let mut figures = |ramp: &GateRamp, label: &str| match ramp_figures(ramp, target) {
+        Ok(v) => Some(v),
+        Err(e) => {
+            problems.push(format!("{label}: {e}"));
+            None
+        }
+    };
+    let lin_f = figures(&lin, "V_DS,lin");
+    let sat_f = figures(&sat, "V_DS,sat");
+    let p = &structure.problem;
+    let mut barrier_of = |ramp: &GateRamp, label: &str| match &ramp.off_psi {
+        Some(psi) => Some(extract::barrier(p, psi, s.polarity)),
+        None => {
+            problems.push(format!(
+                "{label}: the off-state point V_G = {} V did not converge",
+                s.bias.off_vgs_v
+            ));
+            None
+        }
+    };
+    let barrier_lin = barrier_of(&lin, "barrier at V_DS,lin");
+    let barrier_sat = barrier_of(&sat, "barrier at V_DS,sat");
+    let (vgs, id_lin) = ascending(&lin);
+    let (_, id_sat) = ascending(&sat);
+    let converged = lin
+        .points
+        .iter()
+        .chain(&sat.points)
+        .all(|p| p.report.converged())
+        && reference.long_channel.is_ok();
+    let report = build_report(
+        s,
+        reference,
+        Figures {
+            method: Method::TwoDSolve,
+            vt_lin_v: lin_f.map(|f| f.0),
+            vt_sat_v: sat_f.map(|f| f.0),
+            ss_lin_mv_per_dec: lin_f.map(|f| f.1),
+            ss_sat_mv_per_dec: sat_f.map(|f| f.1),
+            barrier_lin,
+            barrier_sat,
+            converged,
+            nodes: p.node_count(),
+            unknowns,
+            newton_steps: lin.newton_steps + sat.newton_steps,
+            factorisations: lin.factorisations + sat.factorisations,
+            bias_points: lin.points.len() + sat.points.len(),
+            vgs_v: vgs,
+            id_lin,
+            id_sat,
+            current_unit: "A/um (drain current per um of gate width; negative for p-channel)"
+                .into(),
+            problems,
+            warnings: s.warnings.clone(),
+        },
+    );
+    Ok(DeviceSolution {
+        report,
+        structure,
+        lin,
+        sat,
+        barrier_lin,
+        barrier_sat,
+    })
+}
+
+/// A fin or wire: the long-channel cross-section and the theory at this length.
+fn fin_report(s: &Scenario, reference: &Reference) -> DeviceReport {
+    let mut problems = Vec::new();
+    let est = match &reference.theory {
+        Ok(t) => t
+            .at(s.geometry.gate_length_nm)
+            .map_err(|e| problems.push(format!("theory: {e}")))
+            .ok(),
+        Err(e) => {
+            problems.push(format!("theory: {e}"));
+            None
+        }
+    };
+    let vt_long = reference.vt_long_v();
+    let ss = est.map(|e| e.ss_mv_per_dec);
+    let (width, definition) = reference
+        .fin
+        .as_ref()
+        .map(|f| (f.width_nm, f.width_definition.clone()))
+        .unwrap_or((f64::NAN, crate::structure::WIDTH_DEFINITION.into()));
+    let mut warnings = s.warnings.clone();
+    if let Ok(l) = &reference.lambda {
+        warnings.push(format!(
+            "{}: short-channel figures are theory (Liu et al. 1993 with the numeric natural length {:.2} nm), \
+             not an along-channel solve; barrier lowering and I-V curves are not computed",
+            s.architecture, l.lambda_numeric_nm
+        ));
+    }
+    build_report(
+        s,
+        reference,
+        Figures {
+            method: Method::Theory,
+            vt_lin_v: vt_long.zip(est).map(|(v, e)| v + e.roll_off_lin_v),
+            vt_sat_v: vt_long.zip(est).map(|(v, e)| v + e.roll_off_sat_v),
+            ss_lin_mv_per_dec: ss,
+            ss_sat_mv_per_dec: ss,
+            barrier_lin: None,
+            barrier_sat: None,
+            converged: reference.long_channel.is_ok(),
+            nodes: reference.fin.as_ref().map_or(0, |f| f.cross_section_nodes),
+            unknowns: 0,
+            newton_steps: 0,
+            factorisations: 0,
+            bias_points: 0,
+            vgs_v: Vec::new(),
+            id_lin: Vec::new(),
+            id_sat: Vec::new(),
+            current_unit: format!("A per device of width W = {width:.2} nm ({definition})"),
+            problems,
+            warnings,
+        },
+    )
+}
+
+/// The one place a [`DeviceReport`] is written.
+fn build_report(s: &Scenario, reference: &Reference, f: Figures) -> DeviceReport {
+    let mut problems = f.problems;
+    let (long, long_steps) = match &reference.long_channel {
+        Ok((l, steps)) => (Some(*l), *steps),
+        Err(e) => {
+            problems.push(format!("long-channel reference: {e}"));
+            (None, 0)
+        }
+    };
+    let lambda_numeric_nm = match &reference.lambda {
+        Ok(l) => Some(l.lambda_numeric_nm),
+        Err(e) => {
+            problems.push(format!("numeric natural length: {e}"));
+            None
+        }
+    };
+    let theory = reference
+        .theory
+        .as_ref()
+        .ok()
+        .and_then(|t| t.at(s.geometry.gate_length_nm).ok());
+    let thermal_v = crate::physics::thermal_voltage(s.temperature_k);
+    let (lin, sat) = (s.bias.vds_lin_v, s.bias.vds_sat_v);
+    let floor = long.map(|l| {
+        let g = |v: f64| 1.0 - (-(v.abs()) / thermal_v).exp();
+        l.ss_mv_per_dec * (g(sat) / g(lin)).log10() / (sat - lin).abs()
+    });
+    let dibl = match f.method {
+        Method::TwoDSolve => f
+            .vt_lin_v
+            .zip(f.vt_sat_v)
+            .map(|(a, b)| extract::dibl(a, b, lin, sat)),
+        Method::Theory => theory.map(|t| t.dibl_mv_per_v),
+    };
+    let closed = closed_form::natural_length(s);
+    let ni = crate::physics::Silicon::at(s.temperature_k).ni;
+    DeviceReport {
+        name: s.name.clone(),
+        architecture: s.architecture,
+        polarity: s.polarity,
+        temperature_k: s.temperature_k,
+        gate_length_nm: s.geometry.gate_length_nm,
+        l_met_nm: DopingProfile::of(s).metallurgical_length(ni),
+        eot_nm: s.eot_nm(),
+        vt_lin_v: f.vt_lin_v,
+        vt_sat_v: f.vt_sat_v,
+        ss_lin_mv_per_dec: f.ss_lin_mv_per_dec,
+        ss_sat_mv_per_dec: f.ss_sat_mv_per_dec,
+        dibl_mv_per_v: dibl,
+        dibl_long_floor_mv_per_v: match f.method {
+            Method::TwoDSolve => floor,
+            Method::Theory => None,
+        },
+        vt_long_v: long.map(|l| l.vt_v),
+        ss_long_mv_per_dec: long.map(|l| l.ss_mv_per_dec),
+        vt_rolloff_mv: f.vt_lin_v.zip(long).map(|(a, l)| 1000.0 * (a - l.vt_v)),
+        barrier_lin_ev: f.barrier_lin.map(|b| b.height_ev),
+        barrier_sat_ev: f.barrier_sat.map(|b| b.height_ev),
+        barrier_lowering_mev: f
+            .barrier_lin
+            .zip(f.barrier_sat)
+            .map(|(a, b)| 1000.0 * (a.height_ev - b.height_ev)),
+        leakiest_depth_nm: f.barrier_sat.map(|b| b.depth_nm),
+        natural_length_nm: closed.map(|c| c.1),
+        natural_length_formula: closed.map(|c| c.0.to_string()),
+        lambda_numeric_nm,
+        theory_rolloff_mv: theory.map(|t| 1000.0 * t.roll_off_lin_v),
+        theory_dibl_mv_per_v: theory.map(|t| t.dibl_mv_per_v),
+        theory_ss_mv_per_dec: theory.map(|t| t.ss_mv_per_dec),
+        method: f.method,
+        converged: f.converged,
+        nodes: f.nodes,
+        unknowns: f.unknowns,
+        newton_steps_total: f.newton_steps + long_steps,
+        factorisations_total: f.factorisations,
+        bias_points: f.bias_points,
+        vds_lin_v: lin,
+        vds_sat_v: sat,
+        current_criterion_a: s.extraction.current_criterion_a,
+        threshold_current_a_per_um: threshold_current(s),
+        vgs_v: f.vgs_v,
+        id_lin: f.id_lin,
+        id_sat: f.id_sat,
+        current_unit: f.current_unit,
+        problems,
+        warnings: f.warnings,
+        caution: CAUTION.into(),
+    }
+}

@@ -1,0 +1,15 @@
+//! Extraction: the definitions every output uses (MODEL.md section 5).
+//!
+//! | figure | module | entry point |
+//! |---|---|---|
+//! | V_t (constant current), SS, DIBL from I_D-V_G curves | [`curve`] | [`curve::threshold`], [`curve::swing`], [`curve::ramp_figures`] |
+//! | the leakiest path's barrier | [`barrier`] | [`barrier::barrier`] |
+//! | long-channel V_t and SS (Pao-Sah), bulk depletion depth | [`long_channel`] | [`long_channel::extract_long_channel`] |
+
+pub mod barrier;
+pub mod curve;
+pub mod long_channel;
+
+pub use barrier::{band_edge_ev, barrier, Barrier};
+pub use curve::{ascending, dibl, ramp_figures, swing, threshold, Curve, ExtractError};
+pub use long_channel::{extract_long_channel, LongChannel, LongChannelError};

@@ -1,0 +1,56 @@
+//! The console table of a gate-length scan (`gatehold scan`).
+
+use super::fmt;
+use crate::evaluate::scan::ScanReport;
+
+/// Console table of a scan.
+pub fn render_text(r: &ScanReport) -> String {
+    let f = fmt;
+    let mut o = format!(
+        "{} ({}): {}\n  lambda numeric {:.2} nm{}; closed forms: {}\n",
+        r.name,
+        r.architecture,
+        r.method,
+        r.lambda_numeric_nm,
+        r.lambda_dielectric_path_nm
+            .map(|d| format!(" (dielectric path {d:.2} nm)"))
+            .unwrap_or_default(),
+        r.lambda_closed_forms
+            .iter()
+            .map(|(k, v)| format!("{k} {v:.2} nm"))
+            .collect::<Vec<_>>()
+            .join(", ")
+    );
+    for (what, fit) in [
+        ("barrier lowering", &r.lambda_fitted_barrier),
+        ("DIBL", &r.lambda_fitted),
+    ] {
+        if let Some(fit) = fit {
+            o.push_str(&format!(
+                "  lambda fitted to the solved {what}: {:.2} nm (R^2 {:.4}, {} lengths)\n",
+                fit.lambda_nm, fit.r_squared, fit.points
+            ));
+        }
+    }
+    o.push_str(&format!(
+        "  V_t,long {:.4} V, SS_long {:.1} mV/dec, theory barrier V_bi - phi_s {:.3} V\n\n",
+        r.vt_long_v, r.ss_long_mv_per_dec, r.theory_barrier_v
+    ));
+    o.push_str("   L_g nm  L_g/lambda | roll-off mV  theory | DIBL mV/V  theory | SS mV/dec  theory | status\n");
+    for row in &r.rows {
+        o.push_str(&format!(
+            "  {:7.1}  {:10.2} | {:>11} {:>7} | {:>9} {:>7} | {:>9} {:>7} | {}\n",
+            row.gate_length_nm,
+            row.lg_over_lambda,
+            f(row.vt_rolloff_mv, 1),
+            f(row.theory_rolloff_mv, 1),
+            f(row.dibl_mv_per_v, 1),
+            f(row.theory_dibl_mv_per_v, 1),
+            f(row.ss_lin_mv_per_dec, 1),
+            f(row.theory_ss_mv_per_dec, 1),
+            row.status
+        ));
+    }
+    o.push_str(&format!("\nTheory: Liu et al., IEEE TED 40(1), 86, 1993, with the numeric natural length.\nCaution: {}\n", r.caution));
+    o
+}

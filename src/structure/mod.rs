@@ -1,0 +1,37 @@
+//! From a checked [`crate::device::Scenario`] to discretised structures
+//! (materials, node roles, doping on a mesh):
+//!
+//! | structure | module | entry point |
+//! |---|---|---|
+//! | along-channel section of a planar device, its doping | [`planar`] | [`planar::along_channel`] |
+//! | 1D long-channel column at mid-channel | [`planar`] | [`planar::long_channel_column`] |
+//! | fin or wire cross-section perpendicular to the channel | [`fin`] | [`fin::cross_section`] |
+
+pub mod fin;
+pub mod planar;
+
+pub use fin::{cross_section, CrossSection, CrossSectionError, Region, WIDTH_DEFINITION};
+pub use planar::{along_channel, long_channel_column, AlongChannel, DopingProfile};
+
+/// Electrode numbers.
+pub const GATE: usize = 0;
+pub const BACK_PLANE: usize = 1;
+/// Contact numbers.
+pub const SOURCE: usize = 0;
+pub const DRAIN: usize = 1;
+pub const SUBSTRATE: usize = 2;
+
+/// Finest step at a silicon/dielectric interface, nm (inversion layer ~1 nm; common practice).
+pub const FINE_INTERFACE_NM: f64 = 0.02;
+/// Finest step at junctions and gate edges, nm.
+pub const FINE_JUNCTION_NM: f64 = 0.2;
+/// Finest step at other refined points (gate electrode corners, well bottoms), nm.
+pub const FINE_OTHER_NM: f64 = 0.25;
+
+/// The finest step requested at hard point `x` among `fine` (point, step) pairs.
+pub(crate) fn lookup(fine: &[(f64, f64)], x: f64) -> Option<f64> {
+    fine.iter()
+        .filter(|(p, _)| (p - x).abs() < 1e-9)
+        .map(|(_, h)| *h)
+        .reduce(f64::min)
+}
