@@ -93,8 +93,11 @@ fn reduced_demo_file_summary_and_plots_agree() {
             );
         }
         for &k in &rows {
+            // Never below the ideal ln(10) V_T = 59.6 mV/dec at 300 K (Sze and Ng
+            // 2007; the 1 nm demo mesh may read 0.1 mV/dec low), and at L_g/lambda
+            // above 2 ln 2 the Liu et al. 1993 factor stays below about 3.
             assert!(
-                ss_sat[k] > 59.0 && ss_sat[k] < 200.0,
+                ss_sat[k] > 59.45 && ss_sat[k] < 3.0 * 59.6,
                 "{arch}: SS {}",
                 ss_sat[k]
             );

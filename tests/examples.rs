@@ -4,6 +4,40 @@
 
 use std::process::Command;
 
+/// The lines an example's header promises it prints (after "It should
+/// print"), trimmed; lines with a part that varies by run (a folder name
+/// `NNNN`, a time) are left out.
+fn promised(name: &str) -> Vec<String> {
+    let src = std::fs::read_to_string(
+        std::path::Path::new(env!("CARGO_MANIFEST_DIR"))
+            .join("examples")
+            .join(format!("{name}.rs")),
+    )
+    .unwrap();
+    src.lines()
+        .skip_while(|l| !l.contains("It should print"))
+        .skip(1)
+        .skip_while(|l| !l.starts_with("//!   "))
+        .take_while(|l| l.starts_with("//!   "))
+        .map(|l| l.trim_start_matches("//!").trim().to_string())
+        .filter(|l| !l.contains("NNNN"))
+        .collect()
+}
+
+/// Every number the header promises is printed, to its printed precision:
+/// each promised line appears as a whole line of the output.
+fn check_promises(name: &str, out: &str) {
+    let lines: Vec<&str> = out.lines().map(str::trim).collect();
+    let want = promised(name);
+    assert!(want.len() >= 4, "{name}: header promises {want:?}");
+    for w in &want {
+        assert!(
+            lines.contains(&w.as_str()),
+            "{name}: the header promises\n  {w}\nbut the output is\n{out}"
+        );
+    }
+}
+
 fn run_example(name: &str) -> String {
     let out = Command::new(env!("CARGO"))
         .args(["run", "--release", "--quiet", "--example", name])
@@ -35,6 +69,7 @@ fn numbers(text: &str, label: &str) -> Vec<f64> {
 #[test]
 fn one_device_prints_consistent_figures() {
     let o = run_example("one_device");
+    check_promises("one_device", &o);
     let vt_lin = numbers(&o, "V_t,lin")[0];
     let vt_sat = numbers(&o, "V_t,sat")[0];
     let vt_long = numbers(&o, "V_t,long")[0];
@@ -43,27 +78,52 @@ fn one_device_prints_consistent_figures() {
     let roll = numbers(&o, "roll-off")[0];
     let lam = numbers(&o, "lambda numeric")[0];
     println!("expected V_t,lin 0.3133 V, DIBL 84.0 mV/V; got {vt_lin} V, {dibl} mV/V");
-    assert!((0.2..0.45).contains(&vt_lin), "V_t,lin {vt_lin}");
     assert!(vt_sat < vt_lin && vt_lin < vt_long);
     assert_eq!(ss.len(), 2);
-    assert!(ss.iter().all(|s| (60.0..100.0).contains(s)), "SS {ss:?}");
+    // Subthreshold swing: never below the ideal ln(10) V_T = 59.6 mV/dec (Sze
+    // and Ng 2007), and at L_g/lambda = 4.75 within 10 % of the Liu et al.
+    // (IEEE TED 40(1), 86, 1993) factor 1/(1 - 2 exp(-L/(2 lambda))) on it.
+    let ideal = 1000.0 * std::f64::consts::LN_10 * gatehold::physics::thermal_voltage(300.0);
+    let liu_ss = ideal / (1.0 - 2.0 * (-20.0 / (2.0 * lam)).exp());
+    for s in &ss {
+        assert!(
+            *s > ideal && (s / liu_ss - 1.0).abs() < 0.1,
+            "SS {s} vs {ideal:.1}, Liu {liu_ss:.1}"
+        );
+    }
     // DIBL printed equals (V_t,lin - V_t,sat) / 0.75 V to print precision.
     assert!(
         (dibl - 1000.0 * (vt_lin - vt_sat) / 0.75).abs() < 0.5,
         "DIBL {dibl}"
     );
-    assert!((30.0..200.0).contains(&dibl), "DIBL {dibl}");
+    // DIBL within a factor 1.5 of the Liu et al. 1993 estimate from the same
+    // lambda, exp(-L/(2 lambda)) + 2 exp(-L/lambda) (110 mV/V here; the model
+    // is from memory in MODEL.md and checked by the solves, so the band is wide).
+    let liu_dibl = 1000.0 * ((-20.0 / (2.0 * lam)).exp() + 2.0 * (-20.0 / lam).exp());
+    assert!(
+        dibl > liu_dibl / 1.5 && dibl < 1.5 * liu_dibl,
+        "DIBL {dibl} vs Liu {liu_dibl:.1}"
+    );
     assert!(
         (roll - 1000.0 * (vt_lin - vt_long)).abs() < 0.5,
         "roll-off {roll}"
     );
-    assert!((3.0..6.0).contains(&lam), "lambda {lam}");
+    // Numeric lambda within 2 % of the exact Frank-Taur-Wong double-gate root
+    // (IEEE EDL 19(10), 385, 1998) for the stack's EOT: the physically thick
+    // HfO2 fringes a little, so the numeric value is slightly longer.
+    let eot = 0.6 + 2.0 * 3.9 / 22.0;
+    let ftw = gatehold::theory::closed_form::ftw_double_gate(8.0, eot, 11.7, 3.9).unwrap();
+    assert!(
+        lam >= ftw && lam < 1.02 * ftw,
+        "lambda {lam} vs FTW {ftw:.3}"
+    );
     assert!(o.contains("caution: Screening-level"));
 }
 
 #[test]
 fn natural_lengths_rank_the_stacks() {
     let o = run_example("natural_lengths");
+    check_promises("natural_lengths", &o);
     // Columns: architecture, body nm, EOT nm, lambda nm, L_g/lambda, stack, closed forms.
     let rows: Vec<(String, Vec<f64>)> = o
         .lines()
@@ -129,6 +189,7 @@ fn natural_lengths_rank_the_stacks() {
 #[test]
 fn small_sweep_writes_and_reads_back_four_points() {
     let o = run_example("small_sweep");
+    check_promises("small_sweep", &o);
     assert!(o.contains("4 points, 0 failed"), "{o}");
     let rows: Vec<Vec<f64>> = o
         .lines()
@@ -149,7 +210,8 @@ fn small_sweep_writes_and_reads_back_four_points() {
         assert!(w[1][3] < w[0][3], "SS falls with L: {w:?}");
     }
     for r in &rows {
-        assert!(r[3] > 59.0, "SS above the 60 mV/dec limit: {r:?}");
+        // Never below the ideal ln(10) V_T = 59.6 mV/dec at 300 K (Sze and Ng 2007).
+        assert!(r[3] > 59.55, "SS above the ideal limit: {r:?}");
         // meets = 1 exactly when DIBL <= 100 and SS <= 80 (SS_lin is not printed; SS_sat bounds it closely).
         if r[2] > 100.0 || r[3] > 80.0 {
             assert_eq!(r[4], 0.0, "{r:?}");

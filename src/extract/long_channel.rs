@@ -96,22 +96,22 @@ pub fn extract_long_channel(
         bracket.ok_or(LongChannelError::NotBracketed(b.vgs_start_v, b.vgs_stop_v))?;
     // Illinois false position on log10 I (monotone in V_G).
     let mut side = 0i32;
-    let mut vt = va;
+    let mut vt_v = va;
     for _ in 0..60 {
-        vt = vb - (lb - lt) * (vb - va) / (lb - la);
-        let lv = log_i(col, vt)?;
+        vt_v = vb - (lb - lt) * (vb - va) / (lb - la);
+        let lv = log_i(col, vt_v)?;
         if (lv - lt).abs() < 1e-10 || (vb - va).abs() < 1e-9 {
             break;
         }
         if (lv - lt) * (lb - lt) > 0.0 {
-            vb = vt;
+            vb = vt_v;
             lb = lv;
             if side == 1 {
                 la = lt + 0.5 * (la - lt);
             }
             side = 1;
         } else {
-            va = vt;
+            va = vt_v;
             la = lv;
             if side == -1 {
                 lb = lt + 0.5 * (lb - lt);
@@ -120,7 +120,7 @@ pub fn extract_long_channel(
         }
     }
     // SS at the middle of the SS window (1e-2 of the criterion): about 2 decades below V_t.
-    let mut v_mid = vt - sign * 0.12;
+    let mut v_mid = vt_v - sign * 0.12;
     for _ in 0..30 {
         let d = 1e-3 * sign;
         let l0 = log_i(col, v_mid)?;
@@ -136,7 +136,7 @@ pub fn extract_long_channel(
     let steps = col.steps;
     Ok((
         LongChannel {
-            vt_v: vt,
+            vt_v,
             ss_mv_per_dec: 1000.0 / slope.abs(),
         },
         steps,

@@ -20,10 +20,10 @@ use crate::solve::QuasiFermi;
 /// Channel carrier density integrated over each column, nm^-2 (per nm of width, per nm of length).
 pub fn column_densities(p: &Problem, psi: &[f64], polarity: Polarity) -> Vec<f64> {
     let ni = p.silicon.ni;
-    let vt = p.silicon.thermal_v;
+    let thermal_v = p.silicon.thermal_v;
     let sign = polarity.sign();
     (0..p.nx)
-        .map(|i| p.column_integral(psi, i, |v| ni * (sign * v / vt).exp()))
+        .map(|i| p.column_integral(psi, i, |v| ni * (sign * v / thermal_v).exp()))
         .collect()
 }
 
@@ -62,7 +62,7 @@ pub fn quasi_fermi(
     vds: f64,
     mobility_nm2: f64,
 ) -> Transport {
-    let vt = p.silicon.thermal_v;
+    let thermal_v = p.silicon.thermal_v;
     let sign = polarity.sign();
     let dens = column_densities(p, psi, polarity);
     let seg = segment_resistances(p, &dens);
@@ -76,15 +76,15 @@ pub fn quasi_fermi(
         to_drain[i] = to_drain[i + 1] + seg[i];
     }
     let total = from_source[n - 1];
-    let e = (-(vds.abs()) / vt).exp();
+    let e = (-(vds.abs()) / thermal_v).exp();
     let phi = (0..n)
         .map(|i| {
             let arg = to_drain[i] / total + e * from_source[i] / total;
-            -sign * vt * arg.ln()
+            -sign * thermal_v * arg.ln()
         })
         .collect();
     // A/nm of width -> A/um.
-    let i_per_nm = Q_C * mobility_nm2 * vt * (1.0 - e) / total;
+    let i_per_nm = Q_C * mobility_nm2 * thermal_v * (1.0 - e) / total;
     Transport {
         phi,
         current_a_per_um: sign * i_per_nm * 1e3,
