@@ -51,7 +51,7 @@ pub fn demo(args: &DemoArgs) -> anyhow::Result<Exit> {
         .with_context(|| format!("cannot create {}", args.out.display()))?;
     let sweep_file = args.out.join(SWEEP_FILE);
     let opts = SweepOptions {
-        jobs: args.jobs,
+        jobs: super::capped_jobs(args.jobs),
         overwrite: true,
         command_line: std::env::args().collect::<Vec<_>>().join(" "),
         ..SweepOptions::default()

@@ -74,7 +74,7 @@ pub fn scan_lengths(
 ) -> Result<Exit> {
     let s = load(device)?;
     let pool = rayon::ThreadPoolBuilder::new()
-        .num_threads(jobs.unwrap_or(0))
+        .num_threads(super::capped_jobs(jobs.unwrap_or(0)))
         .build()?;
     let dots = Dots::new(!json);
     let r = pool.install(|| scan(&s, lengths, &dots))?;

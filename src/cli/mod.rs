@@ -80,6 +80,20 @@ enum Command {
     },
 }
 
+/// The worker count to use for `--jobs N`: 0 means all cores; more than the
+/// machine's cores is capped at the core count, with a warning on stderr.
+pub fn capped_jobs(jobs: usize) -> usize {
+    let cores = std::thread::available_parallelism()
+        .map(|n| n.get())
+        .unwrap_or(1);
+    if jobs > cores {
+        eprintln!("warning: --jobs {jobs} is more than the {cores} core(s) of this machine; using {cores}");
+        cores
+    } else {
+        jobs
+    }
+}
+
 /// Runs the parsed command.
 pub fn run(cli: Cli) -> anyhow::Result<Exit> {
     match cli.command {

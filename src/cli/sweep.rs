@@ -78,7 +78,7 @@ pub fn sweep(args: &SweepArgs) -> anyhow::Result<Exit> {
         None => Shard::ALL,
     };
     let opts = SweepOptions {
-        jobs: args.jobs,
+        jobs: super::capped_jobs(args.jobs),
         shard,
         resume: args.resume,
         overwrite: args.force,

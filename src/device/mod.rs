@@ -104,7 +104,7 @@ const TABLE_KEYS: &[(&str, &[&str])] = &[
         "extraction",
         &["current_criterion_A", "mobility_cm2_per_Vs"],
     ),
-    ("mesh", &["max_step_nm", "refinement"]),
+    ("mesh", &["max_step_nm", "refinement", "max_nodes"]),
 ];
 const LAYER_KEYS: &[&str] = &["material", "relative_permittivity", "thickness_nm"];
 
@@ -274,6 +274,261 @@ fn in_range(key: &str, x: f64, lo: f64, hi: f64, unit: &str) -> Result<f64, Devi
     }
 }
 
+/// Largest input file (device or plan) read, bytes: a device file is a few
+/// kB; anything larger is refused before it is read.
+pub const MAX_INPUT_BYTES: u64 = 1 << 20;
+
+/// Reads a device or plan file: only regular files (not `/dev/zero`, a FIFO
+/// or a folder) of at most [`MAX_INPUT_BYTES`], read with that limit so that
+/// a file growing while read cannot exhaust memory. Errors are (full path, why).
+pub fn read_input_file(path: &std::path::Path) -> Result<String, (String, String)> {
+    use std::io::Read;
+    let name = path.display().to_string();
+    let meta = std::fs::metadata(path).map_err(|e| (name.clone(), e.to_string()))?;
+    if !meta.is_file() {
+        return Err((
+            name,
+            "not a regular file (devices, FIFOs and folders are refused)".into(),
+        ));
+    }
+    if meta.len() > MAX_INPUT_BYTES {
+        return Err((
+            name,
+            format!(
+                "{} bytes: larger than the {} byte limit for device and plan files",
+                meta.len(),
+                MAX_INPUT_BYTES
+            ),
+        ));
+    }
+    let mut buf = Vec::new();
+    std::fs::File::open(path)
+        .and_then(|f| f.take(MAX_INPUT_BYTES + 1).read_to_end(&mut buf))
+        .map_err(|e| (name.clone(), e.to_string()))?;
+    if buf.len() as u64 > MAX_INPUT_BYTES {
+        return Err((
+            name,
+            format!("larger than the {MAX_INPUT_BYTES} byte limit for device and plan files"),
+        ));
+    }
+    String::from_utf8(buf).map_err(|e| (name, format!("not UTF-8 text: {e}")))
+}
+
+/// The accepted range of one numeric key: the validator checks every value
+/// against it, and the device-file reference (`docs/device-reference.md`) is
+/// generated from it.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Limit {
+    /// Dotted key (`gate_stack.N.thickness_nm` for every layer).
+    pub key: &'static str,
+    pub min: f64,
+    pub max: f64,
+    pub unit: &'static str,
+    /// Why the range is what it is.
+    pub why: &'static str,
+}
+
+/// Sane bounds on every length, size, bias magnitude and criterion: values
+/// outside them would build absurd meshes (memory, time) or leave every
+/// figure empty, so they are refused before anything is allocated.
+pub const LIMITS: &[Limit] = &[
+    Limit { key: "geometry.gate_length_nm", min: 0.1, max: 100_000.0, unit: "nm", why: "at least 2 mesh cells; at most 100 um" },
+    Limit { key: "geometry.body_thickness_nm", min: 1.0, max: 500.0, unit: "nm", why: "below 1 nm classical carriers are meaningless; above 500 nm the body is not thin and the mesh explodes" },
+    Limit { key: "geometry.fin_height_nm", min: 1.0, max: 500.0, unit: "nm", why: "a fin or wire between 1 nm and 500 nm tall" },
+    Limit { key: "geometry.fin_pitch_nm", min: 1.0, max: 5_000.0, unit: "nm", why: "the lateral period of a fin array, at most 5 um" },
+    Limit { key: "geometry.box_thickness_nm", min: 1.0, max: 2_000.0, unit: "nm", why: "buried oxide between 1 nm and 2 um" },
+    Limit { key: "geometry.source_drain_length_nm", min: 2.0, max: 5_000.0, unit: "nm", why: "source/drain silicon between 2 nm and 5 um" },
+    Limit { key: "geometry.junction_depth_nm", min: 1.0, max: 2_000.0, unit: "nm", why: "bulk wells between 1 nm and 2 um deep" },
+    Limit { key: "geometry.substrate_depth_nm", min: 2.0, max: 10_000.0, unit: "nm", why: "substrate between 2 nm and 10 um deep" },
+    Limit { key: "geometry.gate_height_nm", min: 1.0, max: 2_000.0, unit: "nm", why: "a gate electrode thinner than 1 nm is not an electrode; above 2 um it only adds mesh" },
+    Limit { key: "geometry.cap_thickness_nm", min: 0.5, max: 500.0, unit: "nm", why: "fin cap between 0.5 nm and 500 nm" },
+    Limit { key: "gate_stack.N.thickness_nm", min: 0.1, max: 200.0, unit: "nm", why: "below 0.1 nm (one atomic layer) the mesh cannot resolve it; above 200 nm it is not a gate dielectric" },
+    Limit { key: "gate_stack.N.relative_permittivity", min: 1.0, max: 1_000.0, unit: "", why: "a dielectric's relative permittivity" },
+    Limit { key: "temperature_K", min: 50.0, max: 600.0, unit: "K", why: "the silicon models hold from 50 K to 600 K" },
+    Limit { key: "gate.workfunction_eV", min: 3.0, max: 6.5, unit: "eV", why: "metal and poly gate work functions" },
+    Limit { key: "gate.back_workfunction_eV", min: 3.0, max: 6.5, unit: "eV", why: "metal and poly gate work functions" },
+    Limit { key: "gate.back_bias_V", min: -20.0, max: 20.0, unit: "V", why: "back-plane bias" },
+    Limit { key: "doping.source_drain_cm3", min: 1e17, max: 5e21, unit: "cm^-3", why: "degenerate source/drain doping" },
+    Limit { key: "doping.junction_gradient_nm_per_decade", min: 0.0, max: 20.0, unit: "nm/decade", why: "0 abrupt, up to 20 nm per decade" },
+    Limit { key: "bias.vds_lin_V", min: 0.001, max: 5.0, unit: "V (magnitude)", why: "below 1 mV the drain current is lost in the numerical noise" },
+    Limit { key: "bias.vds_sat_V", min: 0.001, max: 5.0, unit: "V (magnitude)", why: "drain bias magnitude" },
+    Limit { key: "bias.vgs_start_V", min: -5.0, max: 5.0, unit: "V", why: "the gate sweep stays within -5 V to 5 V" },
+    Limit { key: "bias.vgs_stop_V", min: -5.0, max: 5.0, unit: "V", why: "the gate sweep stays within -5 V to 5 V" },
+    Limit { key: "bias.vgs_step_V", min: 1e-4, max: 0.2, unit: "V", why: "SS needs several points per decade; at most 2000 gate voltages" },
+    Limit { key: "bias.off_vgs_V", min: -5.0, max: 5.0, unit: "V", why: "inside the gate sweep" },
+    Limit { key: "extraction.current_criterion_A", min: 1e-12, max: 1e-4, unit: "A", why: "I_cc per square: outside 1 pA to 100 uA no gate sweep in range reaches it (every V_t would be missing)" },
+    Limit { key: "extraction.mobility_cm2_per_Vs", min: 1.0, max: 1e5, unit: "cm^2/Vs", why: "constant mobility" },
+    Limit { key: "mesh.max_step_nm", min: 0.05, max: 5.0, unit: "nm", why: "largest mesh cell" },
+    Limit { key: "mesh.refinement", min: 1.0, max: 8.0, unit: "", why: "divides every mesh step" },
+    Limit { key: "mesh.max_nodes", min: 1_000.0, max: 1e8, unit: "nodes", why: "the node budget checked before any mesh is built" },
+];
+
+/// The limit of `key` (layer keys as `gate_stack.N.key`).
+pub fn limit_of(key: &str) -> Option<&'static Limit> {
+    let generic = match key.split('.').collect::<Vec<_>>().as_slice() {
+        ["gate_stack", _, k] => format!("gate_stack.N.{k}"),
+        _ => key.to_string(),
+    };
+    LIMITS.iter().find(|l| l.key == generic)
+}
+
+/// Checks `x` (its magnitude for a `(magnitude)` unit) against the limit of `key`.
+fn bounded(key: &str, x: f64) -> Result<f64, DeviceError> {
+    let l = limit_of(key).expect("every bounded key has a limit");
+    let m = if l.unit.ends_with("(magnitude)") {
+        x.abs()
+    } else {
+        x
+    };
+    if m >= l.min && m <= l.max {
+        Ok(x)
+    } else {
+        Err(invalid(
+            key,
+            x,
+            format!(
+                "outside the accepted range {} to {} {}: {}",
+                l.min, l.max, l.unit, l.why
+            ),
+        ))
+    }
+}
+
+/// Default node budget (`mesh.max_nodes`): about 120 times the demo bulk device (about 8 GB by the estimate below).
+pub const DEFAULT_MAX_NODES: f64 = 4_000_000.0;
+
+/// Rough memory per mesh node, bytes (Jacobian, its sparse Cholesky factor
+/// and the solver's vectors; an estimate for the budget message, not a measurement).
+pub const BYTES_PER_NODE_ESTIMATE: f64 = 2_000.0;
+
+/// Estimated mesh nodes of the scenario's largest 2D problem, from the
+/// geometry and mesh keys alone (before anything is built), and the key that
+/// dominates it. A lower estimate: every cell is at most the maximum step, so
+/// a domain of extents X by Y has at least (X/h + 1)(Y/h + 1) nodes.
+pub fn estimate_nodes(s: &Scenario) -> (f64, &'static str) {
+    let g = &s.geometry;
+    let h = s.mesh.max_step_nm / s.mesh.refinement;
+    let t = s.stack_thickness_nm();
+    let layers = 2.0 * (s.stack.len() as f64 + 4.0);
+    let (x, y, mut parts): (f64, f64, Vec<(&'static str, f64)>) = if s.architecture.is_planar() {
+        let x = 2.0 * g.source_drain_length_nm + g.gate_length_nm;
+        let (below, key, v) = match s.architecture {
+            Architecture::Bulk => (
+                g.substrate_depth_nm,
+                "geometry.substrate_depth_nm",
+                g.substrate_depth_nm,
+            ),
+            Architecture::ThinBody => (
+                g.body_thickness_nm + g.box_thickness_nm,
+                if g.box_thickness_nm > g.body_thickness_nm {
+                    "geometry.box_thickness_nm"
+                } else {
+                    "geometry.body_thickness_nm"
+                },
+                g.box_thickness_nm.max(g.body_thickness_nm),
+            ),
+            _ => (
+                g.body_thickness_nm / 2.0,
+                "geometry.body_thickness_nm",
+                g.body_thickness_nm / 2.0,
+            ),
+        };
+        let y = g.gate_height_nm + t + below;
+        (
+            x,
+            y,
+            vec![
+                ("geometry.gate_length_nm", g.gate_length_nm * y),
+                (
+                    "geometry.source_drain_length_nm",
+                    2.0 * g.source_drain_length_nm * y,
+                ),
+                ("geometry.gate_height_nm", g.gate_height_nm * x),
+                (key, v * x),
+                ("gate_stack.0.thickness_nm", t * x),
+            ],
+        )
+    } else {
+        let gaa = s.architecture == Architecture::GateAllAround;
+        let x = if gaa {
+            g.body_thickness_nm / 2.0 + t + g.gate_height_nm
+        } else {
+            g.fin_pitch_nm / 2.0
+        };
+        let extra = if gaa {
+            t + g.gate_height_nm
+        } else {
+            g.box_thickness_nm
+        };
+        let y = g.gate_height_nm + t + g.fin_height_nm + extra;
+        (
+            x,
+            y,
+            vec![
+                (
+                    if gaa {
+                        "geometry.body_thickness_nm"
+                    } else {
+                        "geometry.fin_pitch_nm"
+                    },
+                    x * y,
+                ),
+                ("geometry.fin_height_nm", g.fin_height_nm * x),
+                ("geometry.gate_height_nm", g.gate_height_nm * (x + y)),
+                (
+                    "geometry.box_thickness_nm",
+                    if gaa { 0.0 } else { g.box_thickness_nm * x },
+                ),
+            ],
+        )
+    };
+    let nodes = (x / h + 1.0 + layers) * (y / h + 1.0 + layers);
+    parts.sort_by(|a, b| b.1.total_cmp(&a.1));
+    (nodes, parts[0].0)
+}
+
+/// Refuses a scenario whose estimated mesh exceeds its node budget
+/// (`mesh.max_nodes`), naming the estimate, the memory it implies and the
+/// key that dominates it.
+pub fn check_size(s: &Scenario) -> Result<(), DeviceError> {
+    let (nodes, key) = estimate_nodes(s);
+    if nodes > s.mesh.max_nodes {
+        let value = if key == "gate_stack.0.thickness_nm" {
+            s.stack_thickness_nm()
+        } else {
+            geometry_value(s, key)
+        };
+        return Err(invalid(
+            key,
+            value,
+            format!(
+                "the mesh would hold at least {:.0} nodes (about {:.1} GB), beyond the budget mesh.max_nodes = {:.0}; \
+                 shrink {key}, coarsen mesh.max_step_nm (now {}) or, on a big machine, raise mesh.max_nodes",
+                nodes,
+                nodes * BYTES_PER_NODE_ESTIMATE / 1e9,
+                s.mesh.max_nodes,
+                s.mesh.max_step_nm
+            ),
+        ));
+    }
+    Ok(())
+}
+
+fn geometry_value(s: &Scenario, key: &str) -> f64 {
+    let g = &s.geometry;
+    match key {
+        "geometry.gate_length_nm" => g.gate_length_nm,
+        "geometry.source_drain_length_nm" => g.source_drain_length_nm,
+        "geometry.gate_height_nm" => g.gate_height_nm,
+        "geometry.substrate_depth_nm" => g.substrate_depth_nm,
+        "geometry.box_thickness_nm" => g.box_thickness_nm,
+        "geometry.body_thickness_nm" => g.body_thickness_nm,
+        "geometry.fin_height_nm" => g.fin_height_nm,
+        "geometry.fin_pitch_nm" => g.fin_pitch_nm,
+        _ => f64::NAN,
+    }
+}
+
 fn dielectric(key: &str, name: &str) -> Result<f64, DeviceError> {
     dielectric_permittivity(name).ok_or_else(|| {
         invalid(
@@ -327,10 +582,7 @@ pub(crate) fn check_gate_length(
 
 /// Reads a device file from disk.
 pub fn load_device(path: &std::path::Path) -> Result<Scenario, DeviceError> {
-    let text = std::fs::read_to_string(path).map_err(|e| DeviceError::Io {
-        path: path.display().to_string(),
-        reason: e.to_string(),
-    })?;
+    let text = read_input_file(path).map_err(|(path, reason)| DeviceError::Io { path, reason })?;
     parse_device(&text)
 }
 
@@ -426,7 +678,7 @@ pub fn scenario_from_table(root: &toml::Table) -> Result<Scenario, DeviceError> 
     }
     let g = |key: &str, default: f64| -> Result<f64, DeviceError> {
         let full = format!("geometry.{key}");
-        positive(&full, r.number(&full)?.unwrap_or(default))
+        bounded(&full, positive(&full, r.number(&full)?.unwrap_or(default))?)
     };
     let gate_length_nm = positive(
         "geometry.gate_length_nm",
@@ -440,20 +692,26 @@ pub fn scenario_from_table(root: &toml::Table) -> Result<Scenario, DeviceError> 
             .unwrap_or(0.0)
             .max(0.0)
     } else {
-        positive(
+        bounded(
             "geometry.body_thickness_nm",
-            r.required_number(
+            positive(
                 "geometry.body_thickness_nm",
-                &format!("{arch} needs its body (or fin) thickness"),
+                r.required_number(
+                    "geometry.body_thickness_nm",
+                    &format!("{arch} needs its body (or fin) thickness"),
+                )?,
             )?,
         )?
     };
     let fin_height_nm = if arch.is_fin() {
-        positive(
+        bounded(
             "geometry.fin_height_nm",
-            r.required_number(
+            positive(
                 "geometry.fin_height_nm",
-                &format!("{arch} needs the fin or wire height"),
+                r.required_number(
+                    "geometry.fin_height_nm",
+                    &format!("{arch} needs the fin or wire height"),
+                )?,
             )?,
         )?
     } else {
@@ -526,6 +784,7 @@ pub fn scenario_from_table(root: &toml::Table) -> Result<Scenario, DeviceError> 
                 "thinner than 0.1 nm: below one atomic layer, the mesh cannot resolve it",
             ));
         }
+        bounded(&tk, thickness_nm)?;
         stack.push(StackLayer {
             material,
             eps_r,
@@ -684,6 +943,13 @@ pub fn scenario_from_table(root: &toml::Table) -> Result<Scenario, DeviceError> 
         off_vgs_v: b("off_vgs_V", 0.0)?,
     };
     for (k, v) in [
+        ("bias.vgs_start_V", bias.vgs_start_v),
+        ("bias.vgs_stop_V", bias.vgs_stop_v),
+        ("bias.off_vgs_V", bias.off_vgs_v),
+    ] {
+        bounded(k, v)?;
+    }
+    for (k, v) in [
         ("bias.vds_lin_V", bias.vds_lin_v),
         ("bias.vds_sat_V", bias.vds_sat_v),
     ] {
@@ -698,6 +964,7 @@ pub fn scenario_from_table(root: &toml::Table) -> Result<Scenario, DeviceError> 
                 },
             ));
         }
+        bounded(k, v)?;
     }
     if bias.vds_sat_v.abs() <= bias.vds_lin_v.abs() {
         return Err(invalid(
@@ -760,9 +1027,12 @@ pub fn scenario_from_table(root: &toml::Table) -> Result<Scenario, DeviceError> 
     }
 
     let extraction = Extraction {
-        current_criterion_a: positive(
+        current_criterion_a: bounded(
             "extraction.current_criterion_A",
-            r.number("extraction.current_criterion_A")?.unwrap_or(1e-7),
+            positive(
+                "extraction.current_criterion_A",
+                r.number("extraction.current_criterion_A")?.unwrap_or(1e-7),
+            )?,
         )?,
         mobility_nm2_per_vs: CM2_TO_NM2
             * in_range(
@@ -788,6 +1058,10 @@ pub fn scenario_from_table(root: &toml::Table) -> Result<Scenario, DeviceError> 
             8.0,
             "",
         )?,
+        max_nodes: bounded(
+            "mesh.max_nodes",
+            r.number("mesh.max_nodes")?.unwrap_or(DEFAULT_MAX_NODES),
+        )?,
     };
     check_gate_length(gate_length_nm, &mesh, junction_offset_nm)?;
     if arch != Architecture::Bulk && body_thickness_nm < 1.0 {
@@ -803,7 +1077,7 @@ pub fn scenario_from_table(root: &toml::Table) -> Result<Scenario, DeviceError> 
         ));
     }
 
-    Ok(Scenario {
+    let scenario = Scenario {
         name,
         architecture,
         polarity,
@@ -816,7 +1090,9 @@ pub fn scenario_from_table(root: &toml::Table) -> Result<Scenario, DeviceError> 
         extraction,
         mesh,
         warnings,
-    })
+    };
+    check_size(&scenario)?;
+    Ok(scenario)
 }
 
 #[cfg(test)]

@@ -193,6 +193,9 @@ pub struct MeshSettings {
     pub max_step_nm: f64,
     /// Every step divided by this (1: default mesh; 2: twice as fine).
     pub refinement: f64,
+    /// Node budget: a scenario whose estimated mesh is larger is refused
+    /// before anything is built ([`super::check_size`]); key `mesh.max_nodes`.
+    pub max_nodes: f64,
 }
 
 /// A validated device, ready for the solver.
@@ -242,6 +245,7 @@ impl Scenario {
         super::check_gate_length(gate_length_nm, &self.mesh, self.doping.junction_offset_nm)?;
         let mut s = self.clone();
         s.geometry.gate_length_nm = gate_length_nm;
+        super::check_size(&s)?;
         Ok(s)
     }
 

@@ -21,6 +21,13 @@ pub fn template(arch: Architecture) -> String {
         Architecture::Bulk => "4.17           # n+ poly-like gate over a doped body",
         _ => "4.61           # near-midgap metal for an undoped body",
     };
+    // The bulk template's doped body leaks more at the short default gate:
+    // its sweep starts lower so the SS window at V_DS,sat lies inside it.
+    let vgs_start = if arch == Architecture::Bulk {
+        "-0.6"
+    } else {
+        "-0.2"
+    };
     format!(
         r#"# gatehold device file ({arch}). Lengths nm, doping cm^-3, voltages V, work functions eV.
 # Run: gatehold run this.toml   (gatehold run --help for outputs)
@@ -54,7 +61,7 @@ junction_gradient_nm_per_decade = 0   # 0 abrupt
 [bias]
 vds_lin_V = 0.05
 vds_sat_V = 0.8
-vgs_start_V = -0.2
+vgs_start_V = {vgs_start}
 vgs_stop_V = 0.8
 vgs_step_V = 0.02
 off_vgs_V = 0.0                # barrier lowering is reported here

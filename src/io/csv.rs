@@ -12,6 +12,9 @@ fn quote(s: &str) -> String {
     }
 }
 
+/// Numbers are written with Rust's `{}` for f64: plain decimal digits
+/// (`12`, `0`, `0.0123`), never `1.2e1`, and they round-trip exactly.
+///
 /// Writes the header (`name [units]`) and one row per point: point_index,
 /// axis columns, figures (empty when missing), status, meets_criteria.
 pub fn write_points<W: Write>(f: &SweepFile, mut w: W) -> std::io::Result<()> {
@@ -40,11 +43,23 @@ pub fn write_points<W: Write>(f: &SweepFile, mut w: W) -> std::io::Result<()> {
         cells.extend(
             r.figures
                 .iter()
-                .map(|v| v.map(|x| format!("{x:e}")).unwrap_or_default()),
+                .map(|v| v.map(|x| format!("{x}")).unwrap_or_default()),
         );
         cells.push(quote(r.status.as_str()));
         cells.push(r.meets_criteria.code().to_string());
         writeln!(w, "{}", cells.join(","))?;
     }
     Ok(())
+}
+
+#[cfg(test)]
+mod tests {
+    #[test]
+    fn numbers_are_plain_and_round_trip() {
+        for x in [12.0, 0.0, -0.0123, 1e-7, 2.5e-12, 123456.789] {
+            let t = format!("{x}");
+            assert!(!t.contains('e'), "{t}");
+            assert_eq!(t.parse::<f64>().unwrap(), x, "{t}");
+        }
+    }
 }

@@ -147,10 +147,8 @@ fn describe(cols: &[&AxisKey], values: &[AxisValue]) -> String {
 
 /// Reads and validates a plan file; `base` is resolved relative to its folder.
 pub fn load_plan(path: &Path) -> Result<Plan, PlanError> {
-    let text = std::fs::read_to_string(path).map_err(|e| PlanError::Io {
-        path: path.display().to_string(),
-        reason: e.to_string(),
-    })?;
+    let text = crate::device::read_input_file(path)
+        .map_err(|(path, reason)| PlanError::Io { path, reason })?;
     let dir = path
         .parent()
         .map(Path::to_path_buf)
@@ -166,7 +164,7 @@ pub type BaseReader<'a> = dyn Fn(&str) -> Result<String, (String, String)> + 'a;
 pub fn parse_plan(text: &str, base_dir: &Path) -> Result<Plan, PlanError> {
     parse_plan_with(text, &|p: &str| {
         let path = base_dir.join(p);
-        std::fs::read_to_string(&path).map_err(|e| (path.display().to_string(), e.to_string()))
+        crate::device::read_input_file(&path)
     })
 }
 
