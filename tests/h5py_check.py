@@ -32,8 +32,26 @@ def check(path):
               "started", "finished", "shard", "points_total", "axis_columns", "figure_columns"]:
         if a not in f.attrs:
             fail(path, f"root attribute {a} missing")
-    if text(f.attrs["format"]) != "gatehold-sweep 1":
-        fail(path, "format attribute")
+    fmt = text(f.attrs["format"])
+    if fmt not in ("gatehold-sweep 1", "gatehold-sweep 2"):
+        fail(path, f"format attribute {fmt}")
+    v2 = fmt == "gatehold-sweep 2"
+    if v2:
+        for a in ["base_device", "inputs"]:
+            if a not in f.attrs:
+                fail(path, f"root attribute {a} missing (format 2)")
+        inputs = json.loads(text(f.attrs["inputs"]))
+        for rec in inputs:
+            if set(rec) != {"role", "file", "sha256"} or len(rec["sha256"]) != 64:
+                fail(path, f"inputs record {rec}")
+
+        # Format 2: every dataset anywhere carries units and a description.
+        def visit(name, obj):
+            if isinstance(obj, h5py.Dataset):
+                for a in ["units", "description"]:
+                    if a not in obj.attrs or not text(obj.attrs[a]):
+                        fail(path, f"{name} has no {a} attribute")
+        f.visititems(visit)
     axes = json.loads(text(f.attrs["axis_columns"]))
     figures = json.loads(text(f.attrs["figure_columns"]))
     pts = f["points"]
@@ -45,9 +63,16 @@ def check(path):
             fail(path, f"points/{name} has no units attribute")
         if ds.maxshape != (None,):
             fail(path, f"points/{name} is not appendable (maxshape {ds.maxshape})")
-    for k in axes + figures + ["status", "curve_offset", "curve_length", "meets_criteria"]:
+    for k in axes + figures + ["status", "curve_offset", "curve_length", "meets_criteria"] + (
+            ["method", "warnings"] if v2 else []):
         if k not in pts:
             fail(path, f"points/{k} missing")
+    if v2:
+        # Statuses, methods and warnings are variable-length strings (stored whole).
+        for k in ["status", "method", "warnings"]:
+            info = h5py.check_string_dtype(pts[k].dtype)
+            if info is None or info.length is not None:
+                fail(path, f"points/{k} is not a variable-length string dataset ({pts[k].dtype})")
     idx = pts["point_index"][:].tolist()
     if idx != sorted(idx) or len(set(idx)) != len(idx):
         fail(path, "point_index not strictly increasing")
@@ -82,7 +107,11 @@ def check(path):
             for k in axes + figures}
     return {"file": path, "points": n, "point_index": idx, "status": status, "columns": cols,
             "curve_total": int(total), "maps": maps, "complete": complete,
-            "plan": text(f.attrs["plan"])}
+            "plan": text(f.attrs["plan"]),
+            "method": [text(s) for s in pts["method"][:]] if v2 else None,
+            "warnings": [text(s) for s in pts["warnings"][:]] if v2 else None,
+            "base_device": text(f.attrs["base_device"]) if v2 else None,
+            "inputs": json.loads(text(f.attrs["inputs"])) if v2 else None}
 
 
 out = [check(p) for p in sys.argv[1:]]

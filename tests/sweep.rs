@@ -484,10 +484,68 @@ fn h5py_reads_every_file_kind() {
         full["maps"].as_object().unwrap().keys().collect::<Vec<_>>(),
         ["point_000001", "point_000004"]
     );
+    // Format 2 additions, as h5py reads them: the method of every point,
+    // the base device's text and the hashes of the plan's inputs.
+    assert_eq!(full["method"], serde_json::json!(vec!["2d-solve"; 6]));
+    assert_eq!(full["base_device"], DEVICE);
+    let inputs = full["inputs"].as_array().unwrap();
+    assert_eq!(inputs[0]["role"], "plan");
+    assert_eq!(inputs[1]["role"], "base");
+    assert_eq!(inputs[1]["file"], "tiny.toml");
+    assert_eq!(
+        inputs[1]["sha256"],
+        gatehold::io::sha256_hex(DEVICE.as_bytes())
+    );
     assert_eq!(v[1]["points"], 1);
     assert_eq!(v[1]["complete"], 0);
     assert_eq!(v[2]["point_index"], serde_json::json!([1, 3, 5]));
     assert_eq!(v[3]["columns"], full["columns"]);
+}
+
+/// Statuses and warnings are stored whole (variable-length UTF-8): a 1000-
+/// character reason with non-ASCII text reads back unchanged in Rust and in
+/// h5py (format 1 cut them at 255 ASCII bytes).
+#[test]
+fn statuses_and_warnings_are_stored_whole() {
+    let (path, _) = reference();
+    let mut f = read_sweep(path).unwrap();
+    let long = format!("failed: {} µm body", "x".repeat(1000));
+    f.rows[0].status = Status::Failed(long.clone());
+    f.rows[0].method = None;
+    f.rows[1].warnings = vec!["first caution".into(), "second: 5 nm ≥ body".into()];
+    let out = dir().join("long_status.h5");
+    gatehold::io::hdf5::write_sweep(&out, &f).unwrap();
+    let back = read_sweep(&out).unwrap();
+    assert_eq!(back.rows[0].status.as_str(), long);
+    assert_eq!(back.rows[0].method, None);
+    assert_eq!(back.rows[1].warnings, f.rows[1].warnings);
+    assert_eq!(back, f);
+    let Some(v) = h5py(&[&out]) else {
+        return;
+    };
+    assert_eq!(v[0]["status"][0], long.as_str());
+    assert_eq!(v[0]["method"][0], "");
+    assert_eq!(v[0]["warnings"][1], "first caution\nsecond: 5 nm ≥ body");
+}
+
+/// A file written before format 2 (the committed fixture, format 1) still
+/// reads: its points have no method and no warnings; resuming or merging
+/// it is refused with a message that says why.
+#[test]
+fn format_1_files_read_and_are_refused_for_resume_with_a_reason() {
+    let fixture = Path::new(env!("CARGO_MANIFEST_DIR")).join("tests/fixtures/invariant-before.h5");
+    let f = read_sweep(&fixture).unwrap();
+    assert!(!f.rows.is_empty());
+    assert!(f
+        .rows
+        .iter()
+        .all(|r| r.method.is_none() && r.warnings.is_empty()));
+    assert!(f.meta.inputs.is_empty() && f.meta.base_device.is_empty());
+    let why = sweep::inputs_differ(&f.meta.inputs, &plan().inputs).unwrap();
+    assert!(
+        why.contains("before format 2") && why.contains("--force"),
+        "{why}"
+    );
 }
 
 #[test]

@@ -54,12 +54,21 @@ pub fn demo(args: &DemoArgs) -> anyhow::Result<Exit> {
         jobs: super::capped_jobs(args.jobs),
         overwrite: true,
         command_line: std::env::args().collect::<Vec<_>>().join(" "),
+        interrupt: Some(super::interrupt::install()),
         ..SweepOptions::default()
     };
     let bar = Bar::new("demo ", args.quiet);
     let run = sweep::run_sweep(&plan, &sweep_file, &opts, &bar);
     bar.0.finish_and_clear();
     let run = run.context("demo sweep")?;
+    if !run.complete {
+        eprintln!(
+            "demo stopped early: {} holds the {} finished point(s); no plots or summary",
+            sweep_file.display(),
+            run.resumed + run.computed
+        );
+        return Ok(Exit::Stopped);
+    }
     let file = gatehold::io::hdf5::read_sweep(&sweep_file)?;
     let plots = gatehold::plot::sweep_plots(&file, &args.out).context("demo plots")?;
     let series = sweep::shortest::per_series(&file, &plan.criteria)

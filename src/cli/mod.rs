@@ -4,6 +4,7 @@
 pub mod demo;
 pub mod device;
 pub mod exit;
+pub mod interrupt;
 pub mod progress;
 pub mod sweep;
 

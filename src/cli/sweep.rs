@@ -84,7 +84,24 @@ pub fn sweep(args: &SweepArgs) -> anyhow::Result<Exit> {
         overwrite: args.force,
         stop_after: args.stop_after,
         command_line: command_line(),
+        interrupt: Some(super::interrupt::install()),
     };
+    if let Some(csv) = &args.csv {
+        for (input, what) in plan
+            .input_paths
+            .iter()
+            .map(|p| (p, "an input of the plan"))
+            .chain(std::iter::once((&args.out, "the sweep's own output file")))
+        {
+            if sweep::same_file(csv, input) || csv == input {
+                anyhow::bail!(
+                    "refusing to write --csv {}: it is {what} ({})",
+                    csv.display(),
+                    input.display()
+                );
+            }
+        }
+    }
     let bar = Bar::new("", args.quiet);
     let summary = sweep::run_sweep(&plan, &args.out, &opts, &bar)?;
     bar.0.finish_and_clear();

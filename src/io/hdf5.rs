@@ -18,11 +18,19 @@ use crate::evaluate::{CriteriaVerdict, Status};
 
 use super::{
     ascii_fit, units_of, AxisColumn, AxisValue, CurveData, IoError, MapData, PointRow, SweepFile,
-    SweepMeta, STATUS_WIDTH,
+    SweepMeta,
 };
 
-/// Value of the root attribute `format`.
-pub const FORMAT: &str = "gatehold-sweep 1";
+/// Value of the root attribute `format` this version writes. Format 2 adds
+/// to format 1 (nothing renamed): the root attributes `base_device` and
+/// `inputs`, the columns `method` and `warnings`, a `description` on every
+/// dataset, and statuses stored whole as variable-length strings.
+pub const FORMAT: &str = "gatehold-sweep 2";
+
+/// Formats this version reads (format 1 files lack the additions above:
+/// their points read with no method and no warnings, and they cannot be
+/// resumed or merged with format 2 files, having no base device stored).
+pub const FORMATS_READ: &[&str] = &["gatehold-sweep 1", FORMAT];
 
 fn vs(s: &str) -> AttrValue {
     AttrValue::VarLenString(s.to_string())
@@ -45,6 +53,8 @@ enum Col<'a> {
     F64(Vec<f64>),
     I64(Vec<i64>),
     Text(Vec<&'a str>, usize),
+    /// Variable-length UTF-8 strings (stored whole).
+    VText(Vec<&'a str>),
 }
 
 /// Builds the file's bytes.
@@ -66,6 +76,11 @@ pub fn to_bytes(f: &SweepFile) -> Result<Vec<u8>, String> {
     let axes_json = serde_json::to_string(&f.axes.iter().map(|a| &a.key).collect::<Vec<_>>())
         .map_err(|e| e.to_string())?;
     fb.set_attr("axis_columns", vs(&axes_json));
+    fb.set_attr("base_device", vs(&m.base_device));
+    fb.set_attr(
+        "inputs",
+        vs(&serde_json::to_string(&m.inputs).map_err(|e| e.to_string())?),
+    );
     fb.set_attr(
         "figure_columns",
         vs(&serde_json::to_string(&f.figures).map_err(|e| e.to_string())?),
@@ -73,11 +88,13 @@ pub fn to_bytes(f: &SweepFile) -> Result<Vec<u8>, String> {
 
     // points/
     let n = f.rows.len();
-    let mut cols: Vec<(String, &str, &str, Col)> = Vec::new(); // name, units, role, data
+    // name, units, role, description, data
+    let mut cols: Vec<(String, &str, &str, String, Col)> = Vec::new();
     cols.push((
         "point_index".into(),
         "1",
         "index",
+        "index of the point in plan order (from 0)".into(),
         Col::I64(f.rows.iter().map(|r| r.index as i64).collect()),
     ));
     let axis_text: Vec<Vec<String>> = f
@@ -107,7 +124,13 @@ pub fn to_bytes(f: &SweepFile) -> Result<Vec<u8>, String> {
                     }
                 })
                 .collect();
-            cols.push((a.key.clone(), units_of(&a.key), "axis", Col::F64(v)));
+            cols.push((
+                a.key.clone(),
+                units_of(&a.key),
+                "axis",
+                format!("plan axis: device key `{}` of the point", a.key),
+                Col::F64(v),
+            ));
         } else {
             let v: Vec<&str> = axis_text[k].iter().map(String::as_str).collect();
             let w = v
@@ -117,7 +140,13 @@ pub fn to_bytes(f: &SweepFile) -> Result<Vec<u8>, String> {
                 .unwrap_or(0)
                 .max(16)
                 .next_power_of_two();
-            cols.push((a.key.clone(), "1", "axis", Col::Text(v, w)));
+            cols.push((
+                a.key.clone(),
+                "1",
+                "axis",
+                format!("plan axis: device key `{}` of the point", a.key),
+                Col::Text(v, w),
+            ));
         }
     }
     for (k, name) in f.figures.iter().enumerate() {
@@ -125,6 +154,7 @@ pub fn to_bytes(f: &SweepFile) -> Result<Vec<u8>, String> {
             name.clone(),
             units_of(name),
             "figure",
+            super::describe_figure(name),
             Col::F64(
                 f.rows
                     .iter()
@@ -133,45 +163,66 @@ pub fn to_bytes(f: &SweepFile) -> Result<Vec<u8>, String> {
             ),
         ));
     }
-    let status: Vec<String> = f
-        .rows
-        .iter()
-        .map(|r| ascii_fit(r.status.as_str(), STATUS_WIDTH))
-        .collect();
+    let warnings: Vec<String> = f.rows.iter().map(|r| r.warnings.join("\n")).collect();
     cols.push((
         "status".into(),
         "1",
         "status",
-        Col::Text(status.iter().map(String::as_str).collect(), STATUS_WIDTH),
+        "\"ok\", or why the point failed or which figures are missing (whole, UTF-8)".into(),
+        Col::VText(f.rows.iter().map(|r| r.status.as_str()).collect()),
+    ));
+    cols.push((
+        "method".into(),
+        "1",
+        "method",
+        "how the figures were obtained: \"2d-solve\" (along-channel solve), \"theory\" (fins and wires: cross-section solve and the Liu et al. 1993 model), empty when the point failed first".into(),
+        Col::VText(
+            f.rows
+                .iter()
+                .map(|r| r.method.map(|m| m.name()).unwrap_or(""))
+                .collect(),
+        ),
+    ));
+    cols.push((
+        "warnings".into(),
+        "1",
+        "warnings",
+        "cautions about the point's figures, one per line (empty: none)".into(),
+        Col::VText(warnings.iter().map(String::as_str).collect()),
     ));
     cols.push((
         "meets_criteria".into(),
         "1",
         "bookkeeping",
+        "the plan's [criteria]: 1 all met, 0 one failed, -1 unknown or no criteria".into(),
         Col::I64(f.rows.iter().map(|r| r.meets_criteria.code()).collect()),
     ));
     cols.push((
         "newton_steps_total".into(),
         "1",
         "bookkeeping",
+        "Newton steps of the point's solves (solver effort)".into(),
         Col::I64(f.rows.iter().map(|r| r.newton_steps).collect()),
     ));
     cols.push((
         "vds_lin_V".into(),
         "V",
         "bookkeeping",
+        "low drain bias V_DS,lin of the point".into(),
         Col::F64(f.rows.iter().map(|r| r.vds_v.0).collect()),
     ));
     cols.push((
         "vds_sat_V".into(),
         "V",
         "bookkeeping",
+        "high drain bias V_DS,sat of the point".into(),
         Col::F64(f.rows.iter().map(|r| r.vds_v.1).collect()),
     ));
     cols.push((
         "elapsed_s".into(),
         "s",
         "bookkeeping",
+        "wall time of the point (the only column that differs between identical runs)".into(),
         Col::F64(f.rows.iter().map(|r| r.elapsed_s).collect()),
     ));
     let mut offsets = Vec::with_capacity(n);
@@ -180,11 +231,18 @@ pub fn to_bytes(f: &SweepFile) -> Result<Vec<u8>, String> {
         offsets.push(off);
         off += r.curve.vgs_v.len() as i64;
     }
-    cols.push(("curve_offset".into(), "1", "bookkeeping", Col::I64(offsets)));
+    cols.push((
+        "curve_offset".into(),
+        "1",
+        "bookkeeping",
+        "first element of the point's curve in curves/*".into(),
+        Col::I64(offsets),
+    ));
     cols.push((
         "curve_length".into(),
         "1",
         "bookkeeping",
+        "number of gate voltages of the point's curve in curves/*".into(),
         Col::I64(f.rows.iter().map(|r| r.curve.vgs_v.len() as i64).collect()),
     ));
 
@@ -193,7 +251,7 @@ pub fn to_bytes(f: &SweepFile) -> Result<Vec<u8>, String> {
         "order",
         vs("one element per finished point, sorted by point_index (plan order)"),
     );
-    for (name, units, role, data) in &cols {
+    for (name, units, role, description, data) in &cols {
         let ds = g.create_dataset(name);
         match data {
             Col::F64(v) => {
@@ -206,12 +264,16 @@ pub fn to_bytes(f: &SweepFile) -> Result<Vec<u8>, String> {
                 ds.with_ascii_strings_sized(v, *w as u32)
                     .map_err(|e| format!("points/{name}: {e}"))?;
             }
+            Col::VText(v) => {
+                ds.with_vlen_strings(v);
+            }
         }
         ds.with_shape(&[n as u64])
             .with_maxshape(&[MaxExtent::Unlimited])
             .with_chunks(&[chunk(n, 1024)]);
         ds.set_attr("units", vs(units));
         ds.set_attr("role", vs(role));
+        ds.set_attr("description", vs(description));
     }
     fb.add_group(g.finish());
 
@@ -231,24 +293,39 @@ pub fn to_bytes(f: &SweepFile) -> Result<Vec<u8>, String> {
     }
     let mut g = fb.create_group("curves");
     g.set_attr("layout", vs("flattened: point k's samples are [curve_offset[k], curve_offset[k] + curve_length[k]) of each dataset (points/curve_offset, points/curve_length); NaN = bias point not converged"));
-    for (name, units, data) in [
-        ("vgs_V", "V", &v),
-        ("id_lin_A_per_um", "A/um", &il),
-        ("id_sat_A_per_um", "A/um", &is),
+    for (name, units, description, data) in [
+        ("vgs_V", "V", "gate voltage, ascending within each point", &v),
+        (
+            "id_lin_A_per_um",
+            "A/um",
+            "drain current per um of gate width at V_DS,lin (signed; NaN: bias point not converged)",
+            &il,
+        ),
+        (
+            "id_sat_A_per_um",
+            "A/um",
+            "drain current per um of gate width at V_DS,sat (signed; NaN: bias point not converged)",
+            &is,
+        ),
     ] {
         g.create_dataset(name)
             .with_f64_data(data)
             .with_shape(&[total as u64])
             .with_maxshape(&[MaxExtent::Unlimited])
             .with_chunks(&[chunk(total, 4096)])
-            .set_attr("units", vs(units));
+            .set_attr("units", vs(units))
+            .set_attr("description", vs(description));
     }
     g.create_dataset("point_index")
         .with_i64_data(&pi)
         .with_shape(&[total as u64])
         .with_maxshape(&[MaxExtent::Unlimited])
         .with_chunks(&[chunk(total, 4096)])
-        .set_attr("units", vs("1"));
+        .set_attr("units", vs("1"))
+        .set_attr(
+            "description",
+            vs("plan index of the point each sample belongs to"),
+        );
     fb.add_group(g.finish());
 
     // maps/
@@ -275,17 +352,29 @@ fn write_map(g: &mut hdf5_pure::GroupBuilder, m: &MapData) {
     g.create_dataset("x_nm")
         .with_f64_data(&m.x_nm)
         .with_shape(&[nx])
-        .set_attr("units", vs("nm"));
+        .set_attr("units", vs("nm"))
+        .set_attr(
+            "description",
+            vs("mesh lines along the channel, from the source contact"),
+        );
     g.create_dataset("y_nm")
         .with_f64_data(&m.y_nm)
         .with_shape(&[ny])
-        .set_attr("units", vs("nm"));
+        .set_attr("units", vs("nm"))
+        .set_attr(
+            "description",
+            vs("mesh lines downward from the top silicon surface"),
+        );
     for (name, psi) in [("psi_lin_V", &m.psi_lin_v), ("psi_sat_V", &m.psi_sat_v)] {
         if let Some(p) = psi {
             g.create_dataset(name)
                 .with_f64_data(p)
                 .with_shape(&[ny, nx])
-                .set_attr("units", vs("V"));
+                .set_attr("units", vs("V"))
+                .set_attr(
+                    "description",
+                    vs("electrostatic potential at the off-state gate voltage, node (j, i) = (y, x)"),
+                );
         }
     }
     g.create_dataset("material_code")
@@ -294,11 +383,19 @@ fn write_map(g: &mut hdf5_pure::GroupBuilder, m: &MapData) {
         .set_attr(
             "units",
             vs("1 (0 silicon, 1 dielectric, 2+k metal electrode k)"),
+        )
+        .set_attr(
+            "description",
+            vs("material of each mesh cell: 0 silicon, 1 dielectric, 2+k metal electrode k"),
         );
     g.create_dataset("eps_r")
         .with_f64_data(&m.eps_r)
         .with_shape(&[ny - 1, nx - 1])
-        .set_attr("units", vs("1"));
+        .set_attr("units", vs("1"))
+        .set_attr(
+            "description",
+            vs("relative permittivity of each mesh cell (0 in metal)"),
+        );
     g.set_attr("eg_eV", AttrValue::F64(m.eg_ev));
     g.set_attr("carrier_sign", AttrValue::F64(m.polarity.sign()));
     g.set_attr("gate_start_nm", AttrValue::F64(m.gate_start_nm));
@@ -313,9 +410,15 @@ fn write_map(g: &mut hdf5_pure::GroupBuilder, m: &MapData) {
     );
 }
 
+/// Held while a sweep file is written (temporary file, fsync, rename): a
+/// process that must exit at once (a second Ctrl-C) takes it first, so that
+/// it never leaves a temporary file behind.
+pub static WRITING: std::sync::Mutex<()> = std::sync::Mutex::new(());
+
 /// Writes `f` to `path` atomically (temporary file, fsync, rename).
 pub fn write_sweep(path: &Path, f: &SweepFile) -> Result<(), IoError> {
     let bytes = to_bytes(f).map_err(|e| h5err(path, "/", e))?;
+    let _writing = WRITING.lock().unwrap_or_else(|e| e.into_inner());
     let tmp = tmp_path(path);
     let fe = |e: std::io::Error| IoError::File {
         path: tmp.display().to_string(),
@@ -332,7 +435,8 @@ pub fn write_sweep(path: &Path, f: &SweepFile) -> Result<(), IoError> {
     })
 }
 
-fn tmp_path(path: &Path) -> PathBuf {
+/// The temporary file a checkpoint is written to before it is renamed over `path`.
+pub fn tmp_path(path: &Path) -> PathBuf {
     let mut s = path.as_os_str().to_owned();
     s.push(".tmp");
     PathBuf::from(s)
@@ -361,6 +465,16 @@ fn finite(x: f64) -> Option<f64> {
 
 /// Reads a sweep file back (any file this module wrote, partial or complete).
 pub fn read_sweep(path: &Path) -> Result<SweepFile, IoError> {
+    let meta = std::fs::metadata(path).map_err(|e| IoError::File {
+        path: path.display().to_string(),
+        reason: e.to_string(),
+    })?;
+    if !meta.is_file() {
+        return Err(IoError::File {
+            path: path.display().to_string(),
+            reason: "not a regular file (devices, FIFOs and folders are refused)".into(),
+        });
+    }
     let file = File::open(path).map_err(|e| IoError::File {
         path: path.display().to_string(),
         reason: e.to_string(),
@@ -373,8 +487,13 @@ pub fn read_sweep(path: &Path) -> Result<SweepFile, IoError> {
     let req = |name: &str| {
         attr_string(&root, name).ok_or_else(|| not(format!("root attribute `{name}` missing")))
     };
-    if req("format")? != FORMAT {
-        return Err(not(format!("root attribute `format` is not \"{FORMAT}\"")));
+    let format = req("format")?;
+    if !FORMATS_READ.contains(&format.as_str()) {
+        return Err(not(format!(
+            "root attribute `format` is \"{format}\"; this gatehold {} reads {}",
+            env!("CARGO_PKG_VERSION"),
+            FORMATS_READ.join(", ")
+        )));
     }
     let shard = req("shard")?;
     let (si, sc) = shard
@@ -395,6 +514,11 @@ pub fn read_sweep(path: &Path) -> Result<SweepFile, IoError> {
         points_total: attr_f64(&root, "points_total")
             .ok_or_else(|| not("root attribute `points_total` missing".into()))?
             as usize,
+        base_device: attr_string(&root, "base_device").unwrap_or_default(),
+        inputs: match attr_string(&root, "inputs") {
+            Some(j) => serde_json::from_str(&j).map_err(|e| not(format!("inputs: {e}")))?,
+            None => Vec::new(),
+        },
     };
     let axis_keys: Vec<String> = serde_json::from_str(&req("axis_columns")?)
         .map_err(|e| not(format!("axis_columns: {e}")))?;
@@ -436,12 +560,72 @@ pub fn read_sweep(path: &Path) -> Result<SweepFile, IoError> {
         .map(|f| f64s(&format!("points/{f}")))
         .collect::<Result<_, _>>()?;
     let status = strs("points/status")?;
+    // Format-1 files have neither column.
+    let optional = |name: &str| -> Result<Vec<String>, IoError> {
+        match file.dataset(name) {
+            Ok(_) => strs(name),
+            Err(_) => Ok(vec![String::new(); n]),
+        }
+    };
+    let methods = optional("points/method")?;
+    let warnings = optional("points/warnings")?;
+    for (name, v) in [
+        ("status", &status),
+        ("method", &methods),
+        ("warnings", &warnings),
+    ] {
+        if v.len() != n {
+            return Err(not(format!(
+                "points/{name} holds {} elements, points/point_index {n}",
+                v.len()
+            )));
+        }
+    }
     let meets = i64s("points/meets_criteria")?;
     let steps = i64s("points/newton_steps_total")?;
     let elapsed = f64s("points/elapsed_s")?;
     let (vl, vsat) = (f64s("points/vds_lin_V")?, f64s("points/vds_sat_V")?);
     let offs = i64s("points/curve_offset")?;
     let lens = i64s("points/curve_length")?;
+    // A damaged or foreign file must give a named error, never an index panic.
+    let lengths = [
+        ("meets_criteria", meets.len()),
+        ("newton_steps_total", steps.len()),
+        ("elapsed_s", elapsed.len()),
+        ("vds_lin_V", vl.len()),
+        ("vds_sat_V", vsat.len()),
+        ("curve_offset", offs.len()),
+        ("curve_length", lens.len()),
+    ]
+    .into_iter()
+    .chain(
+        axis_keys
+            .iter()
+            .zip(&axis_vals)
+            .map(|(k, v)| (k.as_str(), v.len())),
+    )
+    .chain(
+        figures
+            .iter()
+            .zip(&fig_vals)
+            .map(|(k, v)| (k.as_str(), v.len())),
+    );
+    for (name, len) in lengths {
+        if len != n {
+            return Err(not(format!(
+                "points/{name} holds {len} elements, points/point_index {n}"
+            )));
+        }
+    }
+    if let Some(&i) = index
+        .iter()
+        .find(|&&i| i < 0 || i as usize >= meta.points_total)
+    {
+        return Err(not(format!(
+            "point_index {i} outside the plan's {} points",
+            meta.points_total
+        )));
+    }
     let (cv, cl, cs) = (
         f64s("curves/vgs_V")?,
         f64s("curves/id_lin_A_per_um")?,
@@ -454,8 +638,8 @@ pub fn read_sweep(path: &Path) -> Result<SweepFile, IoError> {
     let mut rows = Vec::with_capacity(n);
     for k in 0..n {
         let idx = index[k] as usize;
-        let (o, l) = (offs[k] as usize, lens[k] as usize);
-        if o + l > cv.len() {
+        let (o, l) = (offs[k].max(0) as usize, lens[k].max(0) as usize);
+        if o.saturating_add(l) > cv.len() || cl.len() != cv.len() || cs.len() != cv.len() {
             return Err(not(format!(
                 "point {idx}: curve slice {o}+{l} beyond curves length {}",
                 cv.len()
@@ -475,6 +659,12 @@ pub fn read_sweep(path: &Path) -> Result<SweepFile, IoError> {
             axis: axis_vals.iter().map(|v| v[k].clone()).collect(),
             figures: fig_vals.iter().map(|v| finite(v[k])).collect(),
             status: Status::parse(&status[k]),
+            method: super::method_from_name(&methods[k]),
+            warnings: warnings[k]
+                .lines()
+                .filter(|l| !l.is_empty())
+                .map(str::to_string)
+                .collect(),
             meets_criteria: CriteriaVerdict::from_code(meets[k]),
             newton_steps: steps[k],
             vds_v: (vl[k], vsat[k]),

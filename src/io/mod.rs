@@ -9,10 +9,33 @@ pub mod hdf5;
 
 use crate::device::Polarity;
 use crate::discretize::CellKind;
-use crate::evaluate::{CriteriaVerdict, DeviceSolution, Status};
+use crate::evaluate::{CriteriaVerdict, DeviceSolution, Method, Status};
 
-/// Width in bytes of the fixed-width `status` strings (longer reasons are cut).
+/// Width in bytes of the fixed-width `status` strings of format-1 files
+/// (format 2 stores statuses whole, as variable-length strings).
 pub const STATUS_WIDTH: usize = 256;
+
+/// One file a sweep's plan read, with the SHA-256 of its text: resume and
+/// merge refuse a file whose inputs differ, naming the input.
+#[derive(Debug, Clone, PartialEq, serde::Serialize, serde::Deserialize)]
+pub struct InputRecord {
+    /// "plan" or "base".
+    pub role: String,
+    /// The file as the user named it (the plan's path, or `base` as written in the plan);
+    /// "(inline)" for a `[base]` table inside the plan.
+    pub file: String,
+    /// SHA-256 of the file's bytes, lowercase hex (FIPS 180-4).
+    pub sha256: String,
+}
+
+/// SHA-256 of `bytes`, lowercase hex.
+pub fn sha256_hex(bytes: &[u8]) -> String {
+    use sha2::Digest;
+    sha2::Sha256::digest(bytes)
+        .iter()
+        .map(|b| format!("{b:02x}"))
+        .collect()
+}
 
 /// What went wrong reading or writing a results file.
 #[derive(Debug, thiserror::Error)]
@@ -64,6 +87,10 @@ pub struct SweepMeta {
     pub shard_count: usize,
     /// Points in the whole plan (all shards).
     pub points_total: usize,
+    /// The base device's text as the plan read it (empty in format-1 files).
+    pub base_device: String,
+    /// Every file the plan read, with its hash (empty in format-1 files).
+    pub inputs: Vec<InputRecord>,
 }
 
 impl SweepMeta {
@@ -197,6 +224,11 @@ pub struct PointRow {
     pub figures: Vec<Option<f64>>,
     /// "ok" or why the point failed / which figures are missing.
     pub status: Status,
+    /// How the figures were obtained; None when the point failed before any
+    /// (or the file predates the column).
+    pub method: Option<Method>,
+    /// Cautions about this point's figures (e.g. quantum confinement below 5 nm).
+    pub warnings: Vec<String>,
     /// The `[criteria]` verdict (stored as 1, 0, -1).
     pub meets_criteria: CriteriaVerdict,
     pub newton_steps: i64,
@@ -308,6 +340,99 @@ pub fn series_labels(f: &SweepFile) -> Vec<String> {
         }
     }
     full
+}
+
+/// The stored name of a method ("2d-solve", "theory"), or None.
+pub fn method_from_name(name: &str) -> Option<Method> {
+    [Method::TwoDSolve, Method::Theory]
+        .into_iter()
+        .find(|m| m.name() == name)
+}
+
+/// What the figures of `gatehold run --json` mean (the `description`
+/// attribute of their sweep-file datasets). A figure not listed here (a
+/// newer report figure) gets a generic description from its name and units.
+const FIGURE_DESCRIPTIONS: &[(&str, &str)] = &[
+    ("gate_length_nm", "drawn gate length L_g"),
+    (
+        "l_met_nm",
+        "metallurgical channel length (between the junctions)",
+    ),
+    (
+        "eot_nm",
+        "equivalent oxide thickness of the gate stack (SiO2 permittivity 3.9)",
+    ),
+    ("vt_lin_V", "constant-current threshold voltage at V_DS,lin"),
+    ("vt_sat_V", "constant-current threshold voltage at V_DS,sat"),
+    (
+        "ss_lin_mV_per_dec",
+        "subthreshold swing at V_DS,lin (least-squares over 1e-3 to 1e-1 of the threshold current)",
+    ),
+    ("ss_sat_mV_per_dec", "subthreshold swing at V_DS,sat"),
+    (
+        "dibl_mV_per_V",
+        "drain-induced barrier lowering (V_t,lin - V_t,sat) / (V_DS,sat - V_DS,lin)",
+    ),
+    (
+        "dibl_long_floor_mV_per_V",
+        "the constant-current DIBL of the long-channel device (floor, reported, not subtracted)",
+    ),
+    (
+        "vt_long_V",
+        "long-channel threshold voltage (1D column, Pao-Sah integral)",
+    ),
+    ("ss_long_mV_per_dec", "long-channel subthreshold swing"),
+    ("vt_rolloff_mV", "threshold roll-off V_t,lin - V_t,long"),
+    (
+        "barrier_lin_eV",
+        "source-channel barrier along the leakiest path at the off-state gate voltage, V_DS,lin",
+    ),
+    (
+        "barrier_sat_eV",
+        "source-channel barrier along the leakiest path at the off-state gate voltage, V_DS,sat",
+    ),
+    (
+        "barrier_lowering_meV",
+        "barrier lowering between V_DS,lin and V_DS,sat",
+    ),
+    (
+        "leakiest_depth_nm",
+        "depth below the top silicon surface of the leakiest path",
+    ),
+    (
+        "natural_length_nm",
+        "closed-form natural length (the headline formula for the architecture)",
+    ),
+    (
+        "lambda_numeric_nm",
+        "numeric natural length (lowest eigenmode of the stack or cross-section)",
+    ),
+    (
+        "theory_rolloff_mV",
+        "V_t roll-off from the Liu et al. 1993 model with the numeric natural length",
+    ),
+    (
+        "theory_dibl_mV_per_V",
+        "DIBL from the Liu et al. 1993 model with the numeric natural length",
+    ),
+    (
+        "theory_ss_mV_per_dec",
+        "SS from the Liu et al. 1993 model with the numeric natural length",
+    ),
+];
+
+/// The `description` attribute of a figure column.
+pub fn describe_figure(name: &str) -> String {
+    FIGURE_DESCRIPTIONS
+        .iter()
+        .find(|(n, _)| *n == name)
+        .map(|(_, d)| format!("{d}; NaN when missing (see status)"))
+        .unwrap_or_else(|| {
+            format!(
+                "figure `{name}` of `gatehold run --json` ({}); NaN when missing (see status)",
+                units_of(name)
+            )
+        })
 }
 
 /// Units of a column from its name's suffix (the project's naming rule); "1" if dimensionless.

@@ -113,6 +113,8 @@ pub enum SweepError {
     Resume { path: String, reason: String },
     #[error("cannot merge: {0}")]
     Merge(String),
+    #[error("refusing to write {out}: it is {what} (choose another output file)")]
+    OverwritesInput { out: String, what: String },
     #[error("thread pool: {0}")]
     Pool(String),
 }
@@ -131,6 +133,9 @@ pub struct SweepOptions {
     pub stop_after: Option<usize>,
     /// Stored in the file's `command_line` attribute.
     pub command_line: String,
+    /// Set (e.g. by a Ctrl-C handler) to stop: no new point starts, the
+    /// points running finish and are written, and the run returns incomplete.
+    pub interrupt: Option<std::sync::Arc<AtomicBool>>,
 }
 
 impl Default for SweepOptions {
@@ -142,6 +147,7 @@ impl Default for SweepOptions {
             overwrite: false,
             stop_after: None,
             command_line: String::new(),
+            interrupt: None,
         }
     }
 }
@@ -249,6 +255,8 @@ pub fn run_plan_point(
         axis: p.values.clone(),
         figures: Vec::new(),
         status: Status::Ok,
+        method: None,
+        warnings: p.scenario.warnings.clone(),
         meets_criteria: crate::evaluate::CriteriaVerdict::Unknown,
         newton_steps: 0,
         vds_v: (p.scenario.bias.vds_lin_v, p.scenario.bias.vds_sat_v),
@@ -270,6 +278,8 @@ pub fn run_plan_point(
                 .map(|(k, v)| (k.to_string(), v))
                 .collect();
             row.status = r.status();
+            row.method = Some(r.method);
+            row.warnings = r.warnings.clone();
             row.meets_criteria = plan.criteria.judge(
                 r.dibl_mv_per_v,
                 r.ss_lin_mv_per_dec,
@@ -334,6 +344,8 @@ pub fn new_file(plan: &Plan, opts: &SweepOptions) -> SweepFile {
             shard_index: opts.shard.index,
             shard_count: opts.shard.count,
             points_total: plan.points.len(),
+            base_device: plan.base_text.clone(),
+            inputs: plan.inputs.clone(),
         },
         axes: plan
             .columns()
@@ -358,6 +370,21 @@ pub fn run_sweep(
     observer: &dyn SweepObserver,
 ) -> Result<SweepSummary, SweepError> {
     let t0 = Instant::now();
+    for (k, input) in plan.input_paths.iter().enumerate() {
+        if same_file(out, input) {
+            return Err(SweepError::OverwritesInput {
+                out: out.display().to_string(),
+                what: format!(
+                    "the plan's {} file {}",
+                    if k == 0 { "own" } else { "base device" },
+                    input.display()
+                ),
+            });
+        }
+    }
+    // A temporary file left by a run killed mid-write holds nothing the
+    // output file does not (it is renamed over it only once complete).
+    let _ = std::fs::remove_file(crate::io::hdf5::tmp_path(out));
     let mut file = if out.exists() {
         if opts.resume {
             let f = read_sweep(out)?;
@@ -367,6 +394,9 @@ pub fn run_sweep(
             };
             if f.meta.plan != plan.text {
                 return Err(bad("the plan text differs from the plan stored in the file (attribute `plan`); resume needs the identical plan".into()));
+            }
+            if let Some(why) = inputs_differ(&f.meta.inputs, &plan.inputs) {
+                return Err(bad(why));
             }
             if (f.meta.shard_index, f.meta.shard_count) != (opts.shard.index, opts.shard.count) {
                 return Err(bad(format!(
@@ -401,6 +431,11 @@ pub fn run_sweep(
         .map_err(|e| SweepError::Pool(e.to_string()))?;
     let references = pool.install(|| References::solve(plan, &todo));
     let stop = AtomicBool::new(false);
+    let interrupted = || {
+        opts.interrupt
+            .as_ref()
+            .is_some_and(|i| i.load(Ordering::SeqCst))
+    };
     let started = AtomicUsize::new(0);
     let limit = opts.stop_after.unwrap_or(usize::MAX);
     let (tx, rx) = mpsc::channel::<(PointRow, Vec<(String, Option<f64>)>)>();
@@ -412,6 +447,7 @@ pub fn run_sweep(
                 todo.par_iter().with_max_len(1).for_each_with(tx, |tx, &i| {
                     // A point starts only while the budget allows (stop_after, or a write error).
                     if stop.load(Ordering::SeqCst)
+                        || interrupted()
                         || started.fetch_add(1, Ordering::SeqCst) >= limit
                     {
                         return;
@@ -476,6 +512,12 @@ pub fn merge(parts: &[&Path], out: &Path, command_line: &str) -> Result<SweepFil
     if parts.is_empty() {
         return Err(SweepError::Merge("no input files".into()));
     }
+    if let Some(p) = parts.iter().find(|p| same_file(out, p)) {
+        return Err(SweepError::OverwritesInput {
+            out: out.display().to_string(),
+            what: format!("one of the files to merge ({})", p.display()),
+        });
+    }
     let files: Vec<SweepFile> = parts
         .iter()
         .map(|p| read_sweep(p))
@@ -487,6 +529,13 @@ pub fn merge(parts: &[&Path], out: &Path, command_line: &str) -> Result<SweepFil
                 "{} holds a different plan from {}",
                 p.display(),
                 parts[0].display()
+            )));
+        }
+        if let Some(why) = inputs_differ(&first.meta.inputs, &f.meta.inputs) {
+            return Err(SweepError::Merge(format!(
+                "{} and {} were run from different inputs: {why}",
+                parts[0].display(),
+                p.display()
             )));
         }
         if f.axes != first.axes || f.figures != first.figures {
@@ -572,6 +621,51 @@ pub fn merge(parts: &[&Path], out: &Path, command_line: &str) -> Result<SweepFil
     };
     write_sweep(out, &merged)?;
     Ok(merged)
+}
+
+/// True when `a` and `b` name the same existing file (same device and
+/// inode on Unix, so links and `./` spellings are caught).
+pub fn same_file(a: &Path, b: &Path) -> bool {
+    let (Ok(ma), Ok(mb)) = (std::fs::metadata(a), std::fs::metadata(b)) else {
+        return false;
+    };
+    #[cfg(unix)]
+    {
+        use std::os::unix::fs::MetadataExt;
+        ma.dev() == mb.dev() && ma.ino() == mb.ino()
+    }
+    #[cfg(not(unix))]
+    {
+        let _ = (ma, mb);
+        matches!((a.canonicalize(), b.canonicalize()), (Ok(x), Ok(y)) if x == y)
+    }
+}
+
+/// Why the inputs recorded in a file (`stored`) differ from `now`, naming
+/// the file; None when every input's hash agrees. A file with no inputs
+/// recorded (format 1) cannot be checked and is refused.
+pub fn inputs_differ(
+    stored: &[crate::io::InputRecord],
+    now: &[crate::io::InputRecord],
+) -> Option<String> {
+    if stored.is_empty() || now.is_empty() {
+        return Some(
+            "the file records no input hashes (written by gatehold before format 2), so its base device cannot be checked; rerun it with --force".into(),
+        );
+    }
+    for n in now {
+        match stored.iter().find(|s| s.role == n.role) {
+            None => return Some(format!("the file records no {} file", n.role)),
+            Some(s) if s.sha256 != n.sha256 => {
+                return Some(format!(
+                    "the {} file {} changed: sha256 {} now, {} when {} was written",
+                    n.role, n.file, n.sha256, s.sha256, s.file
+                ))
+            }
+            Some(_) => {}
+        }
+    }
+    None
 }
 
 /// "0-3, 7, 9-10" for a sorted index list.

@@ -118,6 +118,13 @@ pub struct Plan {
     pub text: String,
     /// The base device table (with no axis applied).
     pub base: toml::Table,
+    /// The base device's text: the file's text, or the inline `[base]`
+    /// table written out (stored in sweep files; resume and merge compare its hash).
+    pub base_text: String,
+    /// Every file the plan read (the plan, then its base), with hashes.
+    pub inputs: Vec<crate::io::InputRecord>,
+    /// Paths on disk of the files the plan read (a sweep refuses to write over any of them).
+    pub input_paths: Vec<PathBuf>,
     pub axes: Vec<Axis>,
     pub points: Vec<PlanPoint>,
     /// Point indices whose potential maps are stored.
@@ -153,7 +160,10 @@ pub fn load_plan(path: &Path) -> Result<Plan, PlanError> {
         .parent()
         .map(Path::to_path_buf)
         .unwrap_or_else(|| PathBuf::from("."));
-    parse_plan(&text, &dir)
+    let mut plan = parse_plan(&text, &dir)?;
+    plan.inputs[0].file = path.display().to_string();
+    plan.input_paths.insert(0, path.to_path_buf());
+    Ok(plan)
 }
 
 /// Reads a plan's `base` device by the path the plan gives: the file's text,
@@ -162,10 +172,18 @@ pub type BaseReader<'a> = dyn Fn(&str) -> Result<String, (String, String)> + 'a;
 
 /// Parses and validates plan text; a `base` path is resolved relative to `base_dir`.
 pub fn parse_plan(text: &str, base_dir: &Path) -> Result<Plan, PlanError> {
-    parse_plan_with(text, &|p: &str| {
+    let mut plan = parse_plan_with(text, &|p: &str| {
         let path = base_dir.join(p);
         crate::device::read_input_file(&path)
-    })
+    })?;
+    if let Some(Value::String(p)) = text
+        .parse::<toml::Table>()
+        .ok()
+        .and_then(|t| t.get("base").cloned())
+    {
+        plan.input_paths.push(base_dir.join(p));
+    }
+    Ok(plan)
 }
 
 /// Parses and validates plan text, reading a `base` device path through
@@ -184,6 +202,12 @@ pub fn parse_plan_with(text: &str, read_base: &BaseReader<'_>) -> Result<Plan, P
             });
         }
     }
+    let mut inputs = vec![crate::io::InputRecord {
+        role: "plan".into(),
+        file: "(plan text)".into(),
+        sha256: crate::io::sha256_hex(text.as_bytes()),
+    }];
+    let base_text: String;
     let base = match root.get("base") {
         None => {
             return Err(invalid(
@@ -197,12 +221,27 @@ pub fn parse_plan_with(text: &str, read_base: &BaseReader<'_>) -> Result<Plan, P
                 path: path.clone(),
                 error: DeviceError::Io { path, reason },
             })?;
-            parse_table(&t).map_err(|error| PlanError::Base {
+            inputs.push(crate::io::InputRecord {
+                role: "base".into(),
+                file: p.clone(),
+                sha256: crate::io::sha256_hex(t.as_bytes()),
+            });
+            let table = parse_table(&t).map_err(|error| PlanError::Base {
                 path: p.clone(),
                 error,
-            })?
+            })?;
+            base_text = t;
+            table
         }
-        Some(Value::Table(t)) => t.clone(),
+        Some(Value::Table(t)) => {
+            base_text = toml::to_string(t).unwrap_or_default();
+            inputs.push(crate::io::InputRecord {
+                role: "base".into(),
+                file: "(inline [base] table)".into(),
+                sha256: crate::io::sha256_hex(base_text.as_bytes()),
+            });
+            t.clone()
+        }
         Some(other) => {
             return Err(invalid(
                 "base",
@@ -308,6 +347,9 @@ pub fn parse_plan_with(text: &str, read_base: &BaseReader<'_>) -> Result<Plan, P
     Ok(Plan {
         text: text.to_string(),
         base,
+        base_text,
+        inputs,
+        input_paths: Vec::new(),
         axes,
         points,
         maps,
