@@ -301,3 +301,220 @@ fn exit_codes_through_the_binary() {
         Some(0)
     );
 }
+
+/// The one exit-code table (README, "Exit codes"), for every command through
+/// the binary: 0 done; 1 bad input or failure; 2 finished with points or
+/// figures missing; 3 stopped early (sweep; Ctrl-C in `tests/sweep.rs`);
+/// 64 usage error. Small double-gate devices (1 nm mesh, 0.03 V steps).
+#[test]
+fn every_command_follows_the_exit_code_table() {
+    let dir = tempfile::tempdir().unwrap();
+    let d = dir.path();
+    let dg = std::fs::read_to_string(
+        Path::new(env!("CARGO_MANIFEST_DIR")).join("meshes/double-gate.toml"),
+    )
+    .unwrap()
+    .replace("vgs_step_V = 0.02", "vgs_step_V = 0.03")
+        + "\n[mesh]\nmax_step_nm = 1.0\n";
+    std::fs::write(d.join("ok.toml"), &dg).unwrap();
+    // Stops short of the threshold current: V_t (and so several figures) missing.
+    std::fs::write(
+        d.join("short.toml"),
+        dg.replace("vgs_stop_V = 0.8", "vgs_stop_V = 0.1"),
+    )
+    .unwrap();
+    // Too coarse at 40 nm: only 2 bias points in the SS window (SS missing there).
+    std::fs::write(
+        d.join("coarse.toml"),
+        dg.replace("vgs_step_V = 0.03", "vgs_step_V = 0.05"),
+    )
+    .unwrap();
+    std::fs::write(
+        d.join("bad.toml"),
+        dg.replace("body_thickness_nm = 8", "body_thickness_nm = -8"),
+    )
+    .unwrap();
+    std::fs::write(
+        d.join("plan.toml"),
+        "base = \"ok.toml\"\n[axes]\n\"geometry.gate_length_nm\" = [25, 40]\n",
+    )
+    .unwrap();
+    std::fs::write(
+        d.join("plan-short.toml"),
+        "base = \"short.toml\"\n[axes]\n\"geometry.gate_length_nm\" = [25, 40]\n",
+    )
+    .unwrap();
+    std::fs::write(d.join("not.h5"), "not an HDF5 file").unwrap();
+    let p = |name: &str| d.join(name).display().to_string();
+    let cases: Vec<(Vec<String>, u8)> = vec![
+        // run
+        (vec!["run".into(), "--quiet".into(), p("ok.toml")], 0),
+        (vec!["run".into(), "--quiet".into(), p("short.toml")], 2),
+        (vec!["run".into(), p("bad.toml")], 1),
+        (vec!["run".into(), "--frobnicate".into(), p("ok.toml")], 64),
+        // lambda
+        (vec!["lambda".into(), p("ok.toml")], 0),
+        (vec!["lambda".into(), p("bad.toml")], 1),
+        (vec!["lambda".into()], 64),
+        // scan
+        (
+            vec![
+                "scan".into(),
+                p("ok.toml"),
+                "--lengths".into(),
+                "30,40".into(),
+            ],
+            0,
+        ),
+        (
+            vec![
+                "scan".into(),
+                p("coarse.toml"),
+                "--lengths".into(),
+                "30,40".into(),
+            ],
+            2,
+        ),
+        (
+            vec![
+                "scan".into(),
+                p("short.toml"),
+                "--lengths".into(),
+                "30".into(),
+            ],
+            1,
+        ), // no reference
+        (vec!["scan".into(), p("ok.toml"), "--lengths=-3".into()], 1),
+        (
+            vec!["scan".into(), p("ok.toml"), "--lengths".into(), "x".into()],
+            64,
+        ),
+        // sweep
+        (
+            vec![
+                "sweep".into(),
+                "-q".into(),
+                p("plan.toml"),
+                "--out".into(),
+                p("s.h5"),
+            ],
+            0,
+        ),
+        (
+            vec![
+                "sweep".into(),
+                "-q".into(),
+                p("plan-short.toml"),
+                "--out".into(),
+                p("f.h5"),
+            ],
+            2,
+        ),
+        (
+            vec![
+                "sweep".into(),
+                "-q".into(),
+                p("plan.toml"),
+                "--out".into(),
+                p("t.h5"),
+                "--stop-after".into(),
+                "1".into(),
+                "--jobs".into(),
+                "1".into(),
+            ],
+            3,
+        ),
+        (
+            vec![
+                "sweep".into(),
+                "-q".into(),
+                p("plan.toml"),
+                "--out".into(),
+                p("s.h5"),
+            ],
+            1,
+        ), // exists
+        (
+            vec![
+                "sweep".into(),
+                "-q".into(),
+                p("plan.toml"),
+                "--out".into(),
+                p("ok.toml"),
+                "--force".into(),
+            ],
+            1,
+        ), // its own base
+        (
+            vec![
+                "sweep".into(),
+                p("plan.toml"),
+                "--out".into(),
+                p("u.h5"),
+                "--shard".into(),
+                "2/2".into(),
+            ],
+            64,
+        ),
+        // merge
+        (
+            vec!["merge".into(), p("s.h5"), "--out".into(), p("m.h5")],
+            0,
+        ),
+        (
+            vec!["merge".into(), p("f.h5"), "--out".into(), p("mf.h5")],
+            2,
+        ),
+        (
+            vec!["merge".into(), p("t.h5"), "--out".into(), p("mt.h5")],
+            1,
+        ), // a point missing
+        (
+            vec!["merge".into(), p("s.h5"), "--out".into(), p("s.h5")],
+            1,
+        ), // its own input
+        (vec!["merge".into(), p("s.h5")], 64),
+        // plot
+        (vec!["plot".into(), p("s.h5"), "--out".into(), p("fig")], 0),
+        (
+            vec!["plot".into(), p("not.h5"), "--out".into(), p("fig2")],
+            1,
+        ),
+        (vec!["plot".into(), p("s.h5")], 64),
+        // demo (a complete demo run is tests/demo.rs)
+        (
+            vec![
+                "demo".into(),
+                "--lengths=-5".into(),
+                "--out".into(),
+                p("demo"),
+            ],
+            1,
+        ),
+        (vec!["demo".into(), "--jobs".into(), "many".into()], 64),
+        // template
+        (vec!["template".into(), "double-gate".into()], 0),
+        (vec!["template".into(), "quad-gate".into()], 1),
+        (vec!["template".into()], 64),
+    ];
+    for (args, code) in cases {
+        let out = gatehold().args(&args).output().unwrap();
+        assert_eq!(
+            out.status.code(),
+            Some(i32::from(code)),
+            "gatehold {}\nstdout: {}\nstderr: {}",
+            args.join(" "),
+            String::from_utf8_lossy(&out.stdout),
+            String::from_utf8_lossy(&out.stderr)
+        );
+        if code == 1 || code == 64 {
+            assert!(
+                String::from_utf8_lossy(&out.stderr).contains("error"),
+                "gatehold {}: a refusal says why on stderr",
+                args.join(" ")
+            );
+        }
+    }
+    // The base device was not overwritten by the refused sweep.
+    assert_eq!(std::fs::read_to_string(d.join("ok.toml")).unwrap(), dg);
+}

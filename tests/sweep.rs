@@ -676,3 +676,147 @@ fn killed_binary_leaves_a_resumable_file() {
     assert_eq!(st.code(), Some(0));
     assert_same_points(&read_sweep(&out).unwrap(), r);
 }
+
+/// Ctrl-C (SIGINT) to the real binary mid-sweep: no new point starts, the
+/// running one is written, the exit code is 3 (stopped early), no `.tmp`
+/// file is left, and `--resume` finishes the file with the reference's points.
+#[test]
+fn ctrl_c_stops_cleanly_with_exit_3_and_resumes() {
+    let exe = env!("CARGO_BIN_EXE_gatehold");
+    let (_, r) = reference();
+    let out = dir().join("interrupted.h5");
+    let mut child = Command::new(exe)
+        .arg("sweep")
+        .arg(dir().join("plan.toml"))
+        .arg("--out")
+        .arg(&out)
+        .args(["--jobs", "1", "--quiet"])
+        .stderr(std::process::Stdio::piped())
+        .spawn()
+        .unwrap();
+    let t = std::time::Instant::now();
+    while !read_sweep(&out).is_ok_and(|f| !f.rows.is_empty()) && t.elapsed().as_secs() < 60 {
+        std::thread::sleep(std::time::Duration::from_millis(10));
+    }
+    let sent = Command::new("kill")
+        .args(["-INT", &child.id().to_string()])
+        .status()
+        .unwrap();
+    assert!(sent.success());
+    let done = child.wait_with_output().unwrap();
+    let stderr = String::from_utf8_lossy(&done.stderr);
+    let part = read_sweep(&out).unwrap();
+    println!("interrupted with {} of 6 points on disk", part.rows.len());
+    assert_eq!(done.status.code(), Some(3), "{stderr}");
+    assert!(stderr.contains("interrupted"), "{stderr}");
+    assert!(part.rows.len() < 6 && !part.is_complete());
+    assert!(!dir().join("interrupted.h5.tmp").exists());
+    let st = Command::new(exe)
+        .arg("sweep")
+        .arg(dir().join("plan.toml"))
+        .arg("--out")
+        .arg(&out)
+        .args(["--resume", "--quiet"])
+        .status()
+        .unwrap();
+    assert_eq!(st.code(), Some(0));
+    assert_same_points(&read_sweep(&out).unwrap(), r);
+}
+
+/// A sweep file knows its device: after the base device file changes,
+/// `--resume` and `merge` refuse, naming the changed file (both files hold
+/// the same plan text, so only the stored hash can tell).
+#[test]
+fn resume_and_merge_refuse_a_changed_base_device_naming_it() {
+    let d = tempfile::tempdir().unwrap();
+    std::fs::write(d.path().join("tiny.toml"), DEVICE).unwrap();
+    std::fs::write(d.path().join("plan.toml"), PLAN).unwrap();
+    let load = || sweep::load_plan(&d.path().join("plan.toml")).unwrap();
+    let a = d.path().join("a.h5");
+    let b = d.path().join("b.h5");
+    let shard = |index| SweepOptions {
+        shard: Shard { index, count: 2 },
+        ..opts(2)
+    };
+    run_sweep(
+        &load(),
+        &a,
+        &SweepOptions {
+            stop_after: Some(1),
+            ..shard(0)
+        },
+        &Quiet,
+    )
+    .unwrap();
+    // The body changes from 5 to 9 nm between the two shards.
+    std::fs::write(
+        d.path().join("tiny.toml"),
+        DEVICE.replace("body_thickness_nm = 5", "body_thickness_nm = 9"),
+    )
+    .unwrap();
+    run_sweep(&load(), &b, &shard(1), &Quiet).unwrap();
+    let e = run_sweep(
+        &load(),
+        &a,
+        &SweepOptions {
+            resume: true,
+            ..shard(0)
+        },
+        &Quiet,
+    )
+    .unwrap_err()
+    .to_string();
+    assert!(
+        e.contains("base file tiny.toml changed") && e.contains("sha256"),
+        "{e}"
+    );
+    // Finish shard 0 with the old device, then try to merge it with shard 1.
+    std::fs::write(d.path().join("tiny.toml"), DEVICE).unwrap();
+    run_sweep(
+        &load(),
+        &a,
+        &SweepOptions {
+            resume: true,
+            ..shard(0)
+        },
+        &Quiet,
+    )
+    .unwrap();
+    let e = merge(&[a.as_path(), b.as_path()], &d.path().join("m.h5"), "m")
+        .unwrap_err()
+        .to_string();
+    assert!(
+        e.contains("different inputs") && e.contains("tiny.toml") && e.contains("a.h5"),
+        "{e}"
+    );
+    assert!(!d.path().join("m.h5").exists());
+    // Neither command writes over one of its inputs.
+    let e = merge(&[a.as_path()], &a, "m").unwrap_err();
+    assert!(matches!(e, SweepError::OverwritesInput { .. }), "{e}");
+    let e = run_sweep(
+        &load(),
+        &d.path().join("tiny.toml"),
+        &SweepOptions {
+            overwrite: true,
+            ..opts(1)
+        },
+        &Quiet,
+    )
+    .unwrap_err();
+    assert!(e.to_string().contains("base device file"), "{e}");
+    assert_eq!(
+        std::fs::read_to_string(d.path().join("tiny.toml")).unwrap(),
+        DEVICE
+    );
+    let e = run_sweep(
+        &load(),
+        &d.path().join("plan.toml"),
+        &SweepOptions {
+            overwrite: true,
+            ..opts(1)
+        },
+        &Quiet,
+    )
+    .unwrap_err();
+    assert!(e.to_string().contains("plan's own file"), "{e}");
+}

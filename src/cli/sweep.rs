@@ -23,8 +23,8 @@ pub struct SweepArgs {
     #[arg(long, short, default_value_t = 0)]
     pub jobs: usize,
     /// Run only points with index % N == I, written "I/N" (I from 0).
-    #[arg(long)]
-    pub shard: Option<String>,
+    #[arg(long, value_parser = parse_shard)]
+    pub shard: Option<Shard>,
     /// Continue a partial output file (same plan), skipping finished points.
     #[arg(long, conflicts_with = "force")]
     pub resume: bool,
@@ -66,6 +66,11 @@ pub struct PlotArgs {
     pub plan_dir: Option<PathBuf>,
 }
 
+/// `--shard I/N`, checked by the argument parser (a bad value is a usage error, exit 64).
+fn parse_shard(s: &str) -> Result<Shard, String> {
+    s.parse::<Shard>().map_err(|e| e.to_string())
+}
+
 fn command_line() -> String {
     std::env::args().collect::<Vec<_>>().join(" ")
 }
@@ -73,10 +78,7 @@ fn command_line() -> String {
 /// Runs `gatehold sweep`.
 pub fn sweep(args: &SweepArgs) -> anyhow::Result<Exit> {
     let plan = sweep::load_plan(&args.plan)?;
-    let shard: Shard = match &args.shard {
-        Some(s) => s.parse()?,
-        None => Shard::ALL,
-    };
+    let shard = args.shard.unwrap_or(Shard::ALL);
     let opts = SweepOptions {
         jobs: super::capped_jobs(args.jobs),
         shard,
