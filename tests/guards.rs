@@ -216,3 +216,30 @@ fn every_template_runs_clean() {
         assert!(v["vt_lin_V"].is_number(), "{arch}: {out}");
     }
 }
+
+/// The committed reference `docs/device-file.md` is exactly what the
+/// validator's tables render (`render::keys::reference_markdown`), so the
+/// documentation cannot drift from the keys and ranges actually checked.
+#[test]
+fn the_committed_key_reference_is_generated_from_the_validator() {
+    let path = Path::new(env!("CARGO_MANIFEST_DIR")).join("docs/device-file.md");
+    let committed = std::fs::read_to_string(&path).unwrap_or_default();
+    let generated = gatehold::render::keys::reference_markdown();
+    assert!(
+        committed == generated,
+        "docs/device-file.md differs from the key table; regenerate it with\n    cargo run --release -- keys > docs/device-file.md"
+    );
+    // Every key the validator knows, and every range, is in it.
+    for k in gatehold::device::known_keys() {
+        assert!(generated.contains(&format!("`{k}")), "{k} missing");
+    }
+    for l in gatehold::device::LIMITS {
+        assert!(generated.contains(&format!("| `{}` |", l.key)), "{}", l.key);
+    }
+    // The hidden command prints the same text.
+    let out = Command::new(env!("CARGO_BIN_EXE_gatehold"))
+        .arg("keys")
+        .output()
+        .unwrap();
+    assert_eq!(String::from_utf8_lossy(&out.stdout), generated);
+}

@@ -100,3 +100,31 @@ pub fn template(architecture: &str) -> Result<Exit> {
     print!("{}", template::template(arch));
     Ok(Exit::Done)
 }
+
+/// `gatehold check FILE [--plan]`: validation and the mesh estimate only.
+pub fn check(file: &Path, plan: bool) -> Result<Exit> {
+    let scenarios: Vec<Scenario> = if plan {
+        gatehold::sweep::load_plan(file)?
+            .points
+            .into_iter()
+            .map(|p| p.scenario)
+            .collect()
+    } else {
+        vec![load(file)?]
+    };
+    let mut largest = 0.0f64;
+    for s in &scenarios {
+        for w in &s.warnings {
+            eprintln!("warning: {w}");
+        }
+        largest = largest.max(gatehold::device::estimate_nodes(s).0);
+    }
+    println!(
+        "{}: valid; {} device(s); largest mesh at least {:.0} nodes (about {:.2} GB)",
+        file.display(),
+        scenarios.len(),
+        largest,
+        largest * gatehold::device::BYTES_PER_NODE_ESTIMATE / 1e9
+    );
+    Ok(Exit::Done)
+}

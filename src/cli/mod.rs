@@ -74,6 +74,19 @@ enum Command {
     Plot(sweep::PlotArgs),
     /// Built-in demonstration: an invented node built four ways, swept over gate length, with plots.
     Demo(demo::DemoArgs),
+    /// Validate a device file (or, with --plan, a plan and every point's
+    /// device) and estimate its mesh, without solving anything.
+    #[command(hide = true)]
+    Check {
+        /// Device file (TOML), or a plan file with --plan.
+        file: PathBuf,
+        /// The file is a plan.
+        #[arg(long)]
+        plan: bool,
+    },
+    /// Print the device-file and plan reference (markdown; docs/device-file.md).
+    #[command(hide = true)]
+    Keys,
     /// Print a commented device file to start from.
     Template {
         /// bulk | thin-body | double-gate | tri-gate | gate-all-around | capped-fin
@@ -117,5 +130,10 @@ pub fn run(cli: Cli) -> anyhow::Result<Exit> {
         Command::Plot(a) => sweep::plot(&a),
         Command::Demo(a) => demo::demo(&a),
         Command::Template { architecture } => device::template(&architecture),
+        Command::Check { file, plan } => device::check(&file, plan),
+        Command::Keys => {
+            print!("{}", gatehold::render::keys::reference_markdown());
+            Ok(Exit::Done)
+        }
     }
 }

@@ -254,11 +254,21 @@ impl<'a> Reader<'a> {
     }
 }
 
+/// A number as an error message shows it: plain digits in the usual range,
+/// scientific notation beyond (1e-300 prints as `1e-300`, not 300 zeros).
+pub fn show_number(x: f64) -> String {
+    if x != 0.0 && x.is_finite() && !(1e-4..1e7).contains(&x.abs()) {
+        format!("{x:e}")
+    } else {
+        format!("{x}")
+    }
+}
+
 fn positive(key: &str, x: f64) -> Result<f64, DeviceError> {
     if x > 0.0 {
         Ok(x)
     } else {
-        Err(invalid(key, x, "must be greater than zero"))
+        Err(invalid(key, show_number(x), "must be greater than zero"))
     }
 }
 
@@ -268,7 +278,7 @@ fn in_range(key: &str, x: f64, lo: f64, hi: f64, unit: &str) -> Result<f64, Devi
     } else {
         Err(invalid(
             key,
-            x,
+            show_number(x),
             format!("outside the accepted range {lo} to {hi} {unit}"),
         ))
     }
@@ -385,7 +395,7 @@ fn bounded(key: &str, x: f64) -> Result<f64, DeviceError> {
     } else {
         Err(invalid(
             key,
-            x,
+            show_number(x),
             format!(
                 "outside the accepted range {} to {} {}: {}",
                 l.min, l.max, l.unit, l.why

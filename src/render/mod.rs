@@ -6,9 +6,11 @@
 //! | one device (`run`), its curves as CSV | [`device`] | [`device::device_text`], [`device::curves_csv`] |
 //! | a gate-length scan | [`scan`] | [`scan::render_text`] |
 //! | a natural-length report | [`lambda`] | [`lambda::render_text`] |
+//! | the device-file and plan reference (`docs/device-file.md`) | [`keys`] | [`keys::reference_markdown`] |
 //! | the demo's summary, shortest compliant lengths of a sweep | [`summary`] | [`summary::demo_text`], [`summary::shortest_text`] |
 
 pub mod device;
+pub mod keys;
 pub mod lambda;
 pub mod scan;
 pub mod summary;
