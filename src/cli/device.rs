@@ -65,6 +65,9 @@ pub fn lambda(device: &Path, json: bool) -> Result<Exit> {
     Ok(Exit::Done)
 }
 
+/// Most gate lengths one `scan` takes (a sweep plan has no such limit).
+pub const MAX_SCAN_LENGTHS: usize = 200;
+
 /// `gatehold scan DEVICE.toml --lengths ...`
 pub fn scan_lengths(
     device: &Path,
@@ -72,6 +75,19 @@ pub fn scan_lengths(
     json: bool,
     jobs: Option<usize>,
 ) -> Result<Exit> {
+    if lengths.len() > MAX_SCAN_LENGTHS {
+        anyhow::bail!(
+            "--lengths: {} gate lengths; a scan takes at most {MAX_SCAN_LENGTHS} (use a sweep plan for more)",
+            lengths.len()
+        );
+    }
+    if let Some(d) = lengths
+        .iter()
+        .enumerate()
+        .find(|(k, l)| lengths[..*k].contains(l))
+    {
+        anyhow::bail!("--lengths: {} nm is given twice", d.1);
+    }
     let s = load(device)?;
     let pool = rayon::ThreadPoolBuilder::new()
         .num_threads(super::capped_jobs(jobs.unwrap_or(0)))

@@ -155,7 +155,9 @@ pub fn closest<'a>(key: &str, candidates: impl IntoIterator<Item = &'a str>) -> 
         .map(|(_, c)| c.to_string())
 }
 
-fn check_keys(root: &toml::Table) -> Result<(), DeviceError> {
+/// Checks that every key of a device table is known (the closest known key
+/// is suggested otherwise); values are not checked.
+pub fn check_keys(root: &toml::Table) -> Result<(), DeviceError> {
     for (k, v) in root {
         if !TOP_KEYS.contains(&k.as_str()) {
             let all = known_keys();
@@ -283,6 +285,9 @@ fn in_range(key: &str, x: f64, lo: f64, hi: f64, unit: &str) -> Result<f64, Devi
         ))
     }
 }
+
+/// Most layers a gate stack may have (each adds mesh lines).
+pub const MAX_STACK_LAYERS: usize = 16;
 
 /// Largest input file (device or plan) read, bytes: a device file is a few
 /// kB; anything larger is refused before it is read.
@@ -489,6 +494,7 @@ pub fn estimate_nodes(s: &Scenario) -> (f64, &'static str) {
                     "geometry.box_thickness_nm",
                     if gaa { 0.0 } else { g.box_thickness_nm * x },
                 ),
+                ("gate_stack.0.thickness_nm", t * (x + y)),
             ],
         )
     };
@@ -734,6 +740,13 @@ pub fn scenario_from_table(root: &toml::Table) -> Result<Scenario, DeviceError> 
         .and_then(|v| v.as_array())
         .cloned()
         .unwrap_or_default();
+    if layers.len() > MAX_STACK_LAYERS {
+        return Err(invalid(
+            "gate_stack",
+            format!("{} layers", layers.len()),
+            format!("at most {MAX_STACK_LAYERS} layers"),
+        ));
+    }
     if layers.is_empty() {
         return Err(DeviceError::Missing {
             key: "gate_stack".into(),
@@ -813,7 +826,15 @@ pub fn scenario_from_table(root: &toml::Table) -> Result<Scenario, DeviceError> 
         gate_length_nm,
         body_thickness_nm,
         fin_height_nm,
-        fin_pitch_nm: g("fin_pitch_nm", body_thickness_nm + 2.0 * stack_t + 20.0)?,
+        // The default pitch follows the fin; other architectures do not use it.
+        fin_pitch_nm: g(
+            "fin_pitch_nm",
+            if arch.is_fin() {
+                body_thickness_nm + 2.0 * stack_t + 20.0
+            } else {
+                2.0 * stack_t + 20.0
+            },
+        )?,
         box_thickness_nm: g("box_thickness_nm", 25.0)?,
         source_drain_length_nm: g("source_drain_length_nm", 15.0)?,
         junction_depth_nm: g("junction_depth_nm", 15.0)?,

@@ -226,10 +226,12 @@ pub fn parse_plan_with(text: &str, read_base: &BaseReader<'_>) -> Result<Plan, P
                 file: p.clone(),
                 sha256: crate::io::sha256_hex(t.as_bytes()),
             });
-            let table = parse_table(&t).map_err(|error| PlanError::Base {
-                path: p.clone(),
-                error,
-            })?;
+            let table = parse_table(&t)
+                .and_then(|table| crate::device::check_keys(&table).map(|()| table))
+                .map_err(|error| PlanError::Base {
+                    path: p.clone(),
+                    error,
+                })?;
             base_text = t;
             table
         }
