@@ -243,3 +243,53 @@ fn the_committed_key_reference_is_generated_from_the_validator() {
         .unwrap();
     assert_eq!(String::from_utf8_lossy(&out.stdout), generated);
 }
+
+/// `lambda`, `run`, `scan`, `sweep` and `check` share one validation: the
+/// same hostile device is refused by each with the same message (the key,
+/// the value and why), before anything is solved. (`lambda` once printed
+/// lambda = 318,299 nm for a 1 mm body and panicked on a 1e-300 nm buried
+/// oxide.)
+#[test]
+fn every_command_refuses_a_hostile_device_with_the_same_error() {
+    let dir = tempfile::tempdir().unwrap();
+    let thin = BASE.replace("double-gate", "thin-body");
+    let cases: &[(&str, String, &str)] = &[
+        (
+            "body 1 mm",
+            with(BASE, "geometry.body_thickness_nm", "1e6"),
+            "`geometry.body_thickness_nm` = 1000000:",
+        ),
+        (
+            "box 1e-300",
+            with(&thin, "geometry.box_thickness_nm", "1e-300"),
+            "`geometry.box_thickness_nm` = 1e-300",
+        ),
+        (
+            "drain 1e-300",
+            with(BASE, "bias.vds_lin_V", "1e-300"),
+            "`bias.vds_lin_V` = 1e-300",
+        ),
+        (
+            "criterion 1e300",
+            with(BASE, "extraction.current_criterion_A", "1e300"),
+            "`extraction.current_criterion_A` = 1e300",
+        ),
+    ];
+    for (label, text, expected) in cases {
+        std::fs::write(dir.path().join("d.toml"), text).unwrap();
+        std::fs::write(dir.path().join("p.toml"), "base = \"d.toml\"\n").unwrap();
+        for args in [
+            vec!["lambda", "d.toml"],
+            vec!["run", "d.toml"],
+            vec!["scan", "d.toml", "--lengths", "20,30"],
+            vec!["sweep", "p.toml", "--out", "o.h5"],
+            vec!["check", "d.toml"],
+        ] {
+            let (code, _, err) = run(&args, dir.path());
+            assert_eq!(code, 1, "{label}: {args:?}: {err}");
+            assert!(err.contains(expected), "{label}: {args:?}: {err}");
+            assert!(!err.contains("panicked"), "{label}: {args:?}: {err}");
+        }
+        assert!(!dir.path().join("o.h5").exists());
+    }
+}

@@ -820,3 +820,37 @@ fn resume_and_merge_refuse_a_changed_base_device_naming_it() {
     .unwrap_err();
     assert!(e.to_string().contains("plan's own file"), "{e}");
 }
+
+/// The CSV export: plain numbers (no exponent) that parse back to the
+/// stored values exactly, missing figures empty, the method and warnings
+/// columns at the end (common practice for a lossless text export).
+#[test]
+fn csv_numbers_are_plain_and_round_trip_exactly() {
+    let (_, r) = reference();
+    let mut buf = Vec::new();
+    gatehold::io::csv::write_points(r, &mut buf).unwrap();
+    let text = String::from_utf8(buf).unwrap();
+    let mut lines = text.lines();
+    let head: Vec<&str> = lines.next().unwrap().split(',').collect();
+    assert_eq!(
+        &head[head.len() - 3..],
+        ["meets_criteria", "method", "warnings"]
+    );
+    let first_fig = 1 + r.axes.len();
+    for (row, line) in r.rows.iter().zip(lines) {
+        let cells: Vec<&str> = line.split(',').collect();
+        for (k, v) in row.figures.iter().enumerate() {
+            let cell = cells[first_fig + k];
+            assert!(!cell.contains(['e', 'E']), "{cell}");
+            match v {
+                Some(x) => assert_eq!(
+                    cell.parse::<f64>().unwrap().to_bits(),
+                    x.to_bits(),
+                    "{cell}"
+                ),
+                None => assert_eq!(cell, ""),
+            }
+        }
+        assert_eq!(cells[cells.len() - 2], "2d-solve");
+    }
+}

@@ -16,7 +16,8 @@ fn quote(s: &str) -> String {
 /// (`12`, `0`, `0.0123`), never `1.2e1`, and they round-trip exactly.
 ///
 /// Writes the header (`name [units]`) and one row per point: point_index,
-/// axis columns, figures (empty when missing), status, meets_criteria.
+/// axis columns, figures (empty when missing), status, meets_criteria,
+/// method, warnings (joined with "; ").
 pub fn write_points<W: Write>(f: &SweepFile, mut w: W) -> std::io::Result<()> {
     let mut head = vec!["point_index".to_string()];
     head.extend(f.axes.iter().map(|a| {
@@ -29,6 +30,8 @@ pub fn write_points<W: Write>(f: &SweepFile, mut w: W) -> std::io::Result<()> {
     head.extend(f.figures.iter().map(|n| format!("{n} [{}]", units_of(n))));
     head.push("status".into());
     head.push("meets_criteria".into());
+    head.push("method".into());
+    head.push("warnings".into());
     writeln!(
         w,
         "{}",
@@ -47,6 +50,8 @@ pub fn write_points<W: Write>(f: &SweepFile, mut w: W) -> std::io::Result<()> {
         );
         cells.push(quote(r.status.as_str()));
         cells.push(r.meets_criteria.code().to_string());
+        cells.push(r.method.map(|m| m.name()).unwrap_or("").to_string());
+        cells.push(quote(&r.warnings.join("; ")));
         writeln!(w, "{}", cells.join(","))?;
     }
     Ok(())
