@@ -64,6 +64,15 @@ pub struct PlotArgs {
     /// No longer needed (the theory curves are stored in the sweep file); accepted and ignored.
     #[arg(long, value_name = "DIR", hide = true)]
     pub plan_dir: Option<PathBuf>,
+    /// Criterion line on the DIBL plot, mV/V (default: the plan's `[criteria]` stored in the file).
+    #[arg(long, value_name = "MV_PER_V")]
+    pub dibl_max: Option<f64>,
+    /// Criterion line on the SS plot, mV/dec (default: the plan's `[criteria]`).
+    #[arg(long, value_name = "MV_PER_DEC")]
+    pub ss_max: Option<f64>,
+    /// Bound on |V_t roll-off|, mV, drawn on the roll-off plot (default: the plan's `[criteria]`).
+    #[arg(long, value_name = "MV")]
+    pub vt_rolloff_max: Option<f64>,
 }
 
 fn command_line() -> String {
@@ -139,8 +148,30 @@ pub fn plot(args: &PlotArgs) -> anyhow::Result<Exit> {
         );
     }
     let f = gatehold::io::hdf5::read_sweep(&args.file)?;
-    let files = gatehold::plot::sweep_plots(&f, &args.out)?;
-    for p in &files {
+    let mut criteria = gatehold::plot::plan_criteria(&f)
+        .with_context(|| format!("sweep file {}", args.file.display()))?;
+    for (option, value, slot) in [
+        ("--dibl-max", args.dibl_max, &mut criteria.dibl_max_mv_per_v),
+        ("--ss-max", args.ss_max, &mut criteria.ss_max_mv_per_dec),
+        (
+            "--vt-rolloff-max",
+            args.vt_rolloff_max,
+            &mut criteria.vt_rolloff_max_mv,
+        ),
+    ] {
+        if let Some(v) = value {
+            anyhow::ensure!(
+                v.is_finite() && v > 0.0,
+                "{option} {v}: must be a finite number > 0"
+            );
+            *slot = Some(v);
+        }
+    }
+    let outcome = gatehold::plot::sweep_plots_with(&f, &args.out, &criteria)?;
+    for note in &outcome.notes {
+        eprintln!("note: {note}");
+    }
+    for p in &outcome.files {
         println!("{}", p.display());
     }
     Ok(Exit::Done)
