@@ -183,7 +183,10 @@ pub fn length_figures(f: &SweepFile, criteria: &Criteria) -> Vec<Figure> {
             }
             for &k in &rows {
                 if !col[k].is_finite() && lg[k].is_finite() {
-                    fig.missing.push(Missing { x: lg[k], colour: c });
+                    fig.missing.push(Missing {
+                        x: lg[k],
+                        colour: c,
+                    });
                 }
             }
             if let Some(Some(x)) = answer {
@@ -290,7 +293,11 @@ fn short_key(key: &str) -> (String, String) {
     let mut name = last.trim_end_matches(suffix).to_string();
     let parts: Vec<&str> = key.split('.').collect();
     if parts.len() >= 3 {
-        name = format!("{}{}-{name}", parts[0].trim_start_matches("gate_"), parts[1]);
+        name = format!(
+            "{}{}-{name}",
+            parts[0].trim_start_matches("gate_"),
+            parts[1]
+        );
     }
     (name, unit.into())
 }
@@ -321,7 +328,10 @@ pub fn point_name(f: &SweepFile, k: usize) -> (String, String) {
     let others: Vec<usize> = (0..f.axes.len())
         .filter(|&a| f.axes[a].key != LENGTH_KEY)
         .collect();
-    let shown: Vec<usize> = match others.iter().find(|&&a| !f.axes[a].numeric && determines(a)) {
+    let shown: Vec<usize> = match others
+        .iter()
+        .find(|&&a| !f.axes[a].numeric && determines(a))
+    {
         Some(&a) if others.len() > 1 => (0..f.axes.len())
             .filter(|&b| b == a || f.axes[b].key == LENGTH_KEY)
             .collect(),
@@ -355,7 +365,10 @@ pub fn point_name(f: &SweepFile, k: usize) -> (String, String) {
         }
     }
     if title.is_empty() {
-        return (format!("point {}", row.index), format!("point-{}", row.index));
+        return (
+            format!("point {}", row.index),
+            format!("point-{}", row.index),
+        );
     }
     (title.join(", "), safe_name(&file.join("_")))
 }
@@ -423,7 +436,10 @@ pub fn iv_figure(
     if !fig.is_drawable() {
         return None;
     }
-    for (c, (name, v)) in [("V_t,lin", vt.0), ("V_t,sat", vt.1)].into_iter().enumerate() {
+    for (c, (name, v)) in [("V_t,lin", vt.0), ("V_t,sat", vt.1)]
+        .into_iter()
+        .enumerate()
+    {
         if let Some(x) = v.filter(|x| x.is_finite()) {
             fig.cuts.push(Cut {
                 x,
@@ -471,7 +487,10 @@ pub fn band_figure(stem: &str, title: &str, map: &MapData, vds: (f64, f64)) -> O
     if !fig.is_drawable() {
         return None;
     }
-    for (x, l) in [(map.gate_start_nm, "gate start"), (map.gate_end_nm, "gate end")] {
+    for (x, l) in [
+        (map.gate_start_nm, "gate start"),
+        (map.gate_end_nm, "gate end"),
+    ] {
         fig.cuts.push(Cut {
             x,
             label: l.into(),
@@ -482,7 +501,12 @@ pub fn band_figure(stem: &str, title: &str, map: &MapData, vds: (f64, f64)) -> O
 }
 
 /// The potential map figure (off state, V_DS,sat if converged, else lin).
-fn map_figure<'a>(stem: &str, name: &str, map: &'a MapData, vds: (f64, f64)) -> Option<MapFigure<'a>> {
+fn map_figure<'a>(
+    stem: &str,
+    name: &str,
+    map: &'a MapData,
+    vds: (f64, f64),
+) -> Option<MapFigure<'a>> {
     let (psi, v) = match (&map.psi_sat_v, &map.psi_lin_v) {
         (Some(p), _) => (p, vds.1),
         (None, Some(p)) => (p, vds.0),
@@ -501,7 +525,9 @@ fn map_figure<'a>(stem: &str, name: &str, map: &'a MapData, vds: (f64, f64)) -> 
 /// every chosen point left out (theory points have no curves; a failed
 /// point may have none).
 pub fn point_figures(f: &SweepFile) -> (Vec<PointFigures<'_>>, Vec<String>) {
-    let mut chosen: Vec<usize> = (0..f.rows.len()).filter(|&k| f.rows[k].map.is_some()).collect();
+    let mut chosen: Vec<usize> = (0..f.rows.len())
+        .filter(|&k| f.rows[k].map.is_some())
+        .collect();
     let mut notes = Vec::new();
     if chosen.is_empty() {
         match (0..f.rows.len())

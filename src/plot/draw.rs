@@ -5,9 +5,10 @@
 use plotters::coord::types::RangedCoordf64;
 use plotters::coord::Shift;
 use plotters::prelude::*;
+use plotters::style::text_anchor::{HPos, Pos, VPos};
 
 use super::figure::{Figure, Glyph, LegendEntry, LineStyle, MarkerStyle, Scale, Style};
-use super::map::{tick_text, MapFigure};
+use super::map::{axis_text, tick_text, MapFigure};
 use super::{scale_colour, DrawResult, FONT, PALETTE};
 
 /// Dash and gap of a dashed trace, px.
@@ -65,9 +66,10 @@ where
         Glyph::Trace(s) => {
             let c = colour(s.colour);
             match s.line {
-                LineStyle::Solid => {
-                    area.draw(&PathElement::new(vec![(x, y), (x + w, y)], c.stroke_width(2)))?
-                }
+                LineStyle::Solid => area.draw(&PathElement::new(
+                    vec![(x, y), (x + w, y)],
+                    c.stroke_width(2),
+                ))?,
                 LineStyle::Dashed => {
                     let mut a = x;
                     while a < x + w {
@@ -132,19 +134,23 @@ where
     let mut y = 60;
     for e in entries {
         draw_glyph(area, &e.glyph, (8, y))?;
-        for (k, line) in wrap(&e.label, 33).iter().enumerate() {
+        let lines = wrap(&e.label, 33);
+        for (k, line) in lines.iter().enumerate() {
             area.draw(&Text::new(
                 line.clone(),
                 (50, y - 7 + 16 * k as i32),
                 font.clone(),
             ))?;
-            if k > 0 {
-                y += 16;
-            }
         }
-        y += 24;
+        y += 24 + 16 * (lines.len() as i32 - 1);
     }
     Ok(())
+}
+
+/// Decimals for about ten ticks over [lo, hi].
+fn decimals(lo: f64, hi: f64) -> usize {
+    let step = (hi - lo).abs().max(1e-12) / 10.0;
+    (-step.log10().floor()).clamp(0.0, 6.0) as usize
 }
 
 fn padded(lo: f64, hi: f64, frac: f64) -> (f64, f64) {
@@ -172,14 +178,19 @@ where
         .margin(12)
         .x_label_area_size(48)
         .y_label_area_size(82);
+    let xd = decimals(x0, x1);
+    let x_fmt = |v: &f64| axis_text(*v, xd);
     match fig.y_scale {
         Scale::Linear => {
             let (y0, y1) = padded(y0, y1, 0.08);
+            let yd = decimals(y0, y1);
             let mut chart = builder.build_cartesian_2d(x0..x1, y0..y1)?;
             chart
                 .configure_mesh()
                 .x_desc(&fig.x_label)
                 .y_desc(&fig.y_label)
+                .x_label_formatter(&x_fmt)
+                .y_label_formatter(&|v| axis_text(*v, yd))
                 .label_style((FONT, 14))
                 .light_line_style(RGBColor(235, 235, 235))
                 .draw()?;
@@ -193,6 +204,7 @@ where
                 .configure_mesh()
                 .x_desc(&fig.x_label)
                 .y_desc(&fig.y_label)
+                .x_label_formatter(&x_fmt)
                 .y_label_formatter(&|v| format!("{v:.0e}"))
                 .label_style((FONT, 14))
                 .light_line_style(RGBColor(235, 235, 235))
@@ -222,8 +234,15 @@ where
             3,
             INK.stroke_width(2),
         ))?;
+        // Written at the right end, above the line, where curves that
+        // fall with L_g leave room.
         chart.draw_series(std::iter::once(
-            EmptyElement::at((x0, l.y)) + Text::new(l.label.clone(), (8, -18), label_font.clone()),
+            EmptyElement::at((x1, l.y))
+                + Text::new(
+                    l.label.clone(),
+                    (-8, -5),
+                    label_font.clone().pos(Pos::new(HPos::Right, VPos::Bottom)),
+                ),
         ))?;
     }
     for (k, c) in fig.cuts.iter().enumerate() {
@@ -414,6 +433,9 @@ mod tests {
         // Source: common practice (legend lines kept inside their panel).
         let w = wrap("double-gate: compliant from 22 nm and some more words", 20);
         assert!(w.iter().all(|l| l.len() <= 20), "{w:?}");
-        assert_eq!(w.join(" "), "double-gate: compliant from 22 nm and some more words");
+        assert_eq!(
+            w.join(" "),
+            "double-gate: compliant from 22 nm and some more words"
+        );
     }
 }

@@ -77,8 +77,7 @@ impl<'a> MapFigure<'a> {
     /// no value is finite.
     pub fn new(stem: &str, title: &str, map: &'a MapData, psi: &'a [f64]) -> Option<Self> {
         let (nx, ny) = (map.nx(), map.ny());
-        if nx < 2 || ny < 2 || psi.len() != nx * ny || map.material.len() != (nx - 1) * (ny - 1)
-        {
+        if nx < 2 || ny < 2 || psi.len() != nx * ny || map.material.len() != (nx - 1) * (ny - 1) {
             return None;
         }
         let (lo, hi) = psi
@@ -120,7 +119,9 @@ impl<'a> MapFigure<'a> {
             };
             let held = psi[i + j0 * nx];
             let mut j1 = j0;
-            while j1 + 1 < ny && si_node(i, j1 + 1) && (psi[i + (j1 + 1) * nx] - held).abs() <= HELD_V
+            while j1 + 1 < ny
+                && si_node(i, j1 + 1)
+                && (psi[i + (j1 + 1) * nx] - held).abs() <= HELD_V
             {
                 j1 += 1;
             }
@@ -204,9 +205,30 @@ pub fn tick_text(v: f64, decimals: usize) -> String {
     }
 }
 
+/// An axis tick with `decimals` decimals, or one more when the value needs
+/// it (a tick at 17.5 on an axis of whole numbers); never "-0".
+pub fn axis_text(v: f64, decimals: usize) -> String {
+    let s = tick_text(v, decimals + 1);
+    match s.strip_suffix('0') {
+        Some(t) if s.contains('.') => t.strip_suffix('.').unwrap_or(t).to_string(),
+        _ => s,
+    }
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn axis_ticks_keep_needed_digits() {
+        // Source: common practice (ticks as short as they can be without rounding).
+        assert_eq!(axis_text(15.0, 0), "15");
+        assert_eq!(axis_text(17.5, 0), "17.5");
+        assert_eq!(axis_text(-0.0, 1), "0.0");
+        assert_eq!(axis_text(-1e-17, 1), "0.0");
+        assert_eq!(axis_text(0.25, 1), "0.25");
+        assert_eq!(axis_text(-0.2, 1), "-0.2");
+    }
 
     #[test]
     fn ticks_never_show_negative_zero() {

@@ -210,7 +210,6 @@ fn scale_colour(t: f64) -> RGBColor {
     RGBColor(mix(a.0, b.0), mix(a.1, b.1), mix(a.2, b.2))
 }
 
-
 pub mod draw;
 
 /// Writes a described figure to `dir/STEM.png` and `.svg`; refuses (and
@@ -306,9 +305,8 @@ pub fn band_plot(
     map: &MapData,
     vds: (f64, f64),
 ) -> Result<Vec<PathBuf>, PlotError> {
-    let fig = describe::band_figure(stem, title, map, vds).ok_or_else(|| {
-        PlotError::Empty(format!("{stem}: no converged off-state potential"))
-    })?;
+    let fig = describe::band_figure(stem, title, map, vds)
+        .ok_or_else(|| PlotError::Empty(format!("{stem}: no converged off-state potential")))?;
     write_figure(dir, &fig)
 }
 
@@ -375,9 +373,8 @@ pub fn sweep_plots_with(
     let mut out = PlotOutcome::default();
     let length = describe::length_figures(f, criteria);
     if length.is_empty() {
-        out.notes.push(
-            "no roll-off, DIBL or SS figure: no point of this file has those figures".into(),
-        );
+        out.notes
+            .push("no roll-off, DIBL or SS figure: no point of this file has those figures".into());
     }
     for fig in &length {
         out.files.extend(write_figure(dir, fig)?);
