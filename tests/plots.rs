@@ -279,11 +279,12 @@ fn per_point_figures_carry_axis_values_vt_and_the_threshold_current() {
     assert!(notes.is_empty(), "{notes:?}");
     assert_eq!(points.len(), 1, "one point holds a map");
     let p = &points[0];
-    assert_eq!(p.iv.stem, "iv_Lg-20nm_tsi-6nm");
+    let iv = p.iv.as_ref().expect("I_D-V_G figure");
+    assert_eq!(iv.stem, "iv_Lg-20nm_tsi-6nm");
     assert!(
-        p.iv.title.contains("L_g = 20 nm") && p.iv.title.contains("tsi = 6 nm"),
+        iv.title.contains("L_g = 20 nm") && iv.title.contains("tsi = 6 nm"),
         "{}",
-        p.iv.title
+        iv.title
     );
     let map = p.map.as_ref().expect("map figure");
     assert_eq!(map.stem, "potential_map_Lg-20nm_tsi-6nm");
@@ -291,12 +292,12 @@ fn per_point_figures_carry_axis_values_vt_and_the_threshold_current() {
     assert_eq!(p.band.as_ref().unwrap().stem, "band_Lg-20nm_tsi-6nm");
     // V_t cuts at the stored V_t of that point (row 2).
     let (vtl, vts) = (col(f, "vt_lin_V")[2], col(f, "vt_sat_V")[2]);
-    let cuts: Vec<f64> = p.iv.cuts.iter().map(|c| c.x).collect();
+    let cuts: Vec<f64> = iv.cuts.iter().map(|c| c.x).collect();
     assert_eq!(cuts, vec![vtl, vts]);
     let s = common::device(&base_device());
     let ith = s.extraction.current_criterion_a / (20.0 * 1e-3);
-    assert_eq!(p.iv.levels.len(), 1);
-    let got = p.iv.levels[0].y;
+    assert_eq!(iv.levels.len(), 1);
+    let got = iv.levels[0].y;
     assert!(
         common::rel(got, ith) < 1e-3,
         "threshold current {got:e} vs I_cc W/L {ith:e}"
@@ -397,6 +398,8 @@ fn points_without_curves_get_no_figure_and_no_file() {
     let (points, notes) = point_figures(f);
     assert!(points.is_empty());
     assert_eq!(notes.len(), 1, "{notes:?}");
+    // A theory point never had curves: nothing is missing (exit 0, not 2).
+    assert!(!notes[0].expected);
     let dir = tempfile::tempdir().unwrap();
     let out = gatehold::plot::sweep_plots_with(f, dir.path(), &Criteria::default()).unwrap();
     assert_eq!(out.files.len(), 6, "{:?}", out.files);
@@ -447,10 +450,50 @@ fn device_plots_of_a_solved_device_decode_and_mark_the_report_threshold() {
     let (fig, notes) = gatehold::plot::describe::device_figures(&sol, &map);
     assert!(notes.is_empty(), "{notes:?}");
     let fig = fig.unwrap();
-    assert_eq!(fig.iv.levels[0].y, sol.report.threshold_current_a_per_um);
-    assert!(fig.iv.title.contains("L_g = 20 nm"), "{}", fig.iv.title);
+    let iv = fig.iv.as_ref().unwrap();
+    assert_eq!(iv.levels[0].y, sol.report.threshold_current_a_per_um);
+    assert!(iv.title.contains("L_g = 20 nm"), "{}", iv.title);
     let dir = tempfile::tempdir().unwrap();
     let files = gatehold::plot::device_plots(&sol, dir.path()).unwrap();
     assert_eq!(files.len(), 6);
     assert_files_decode(&files);
+}
+
+#[test]
+fn a_map_point_without_converged_current_is_reported_missing_with_exit_2() {
+    // Source: README exit codes (2: finished, some figure missing); issue 10 item 4.
+    let mut f = solved().1.clone();
+    let k = f.rows.iter().position(|r| r.map.is_some()).unwrap();
+    let c = &mut f.rows[k].curve;
+    c.id_lin.iter_mut().for_each(|v| *v = f64::NAN);
+    c.id_sat.iter_mut().for_each(|v| *v = f64::NAN);
+    let (points, notes) = point_figures(&f);
+    // The map and band still hold a converged potential: drawn.
+    assert_eq!(points.len(), 1);
+    assert!(points[0].iv.is_none() && points[0].map.is_some() && points[0].band.is_some());
+    assert_eq!(notes.len(), 1);
+    assert!(
+        notes[0].expected && notes[0].reason.contains("L_g = 20 nm"),
+        "{notes:?}"
+    );
+    let dir = scratch("no-current");
+    let file = dir.join("broken.h5");
+    gatehold::io::hdf5::write_sweep(&file, &f).unwrap();
+    let st = gatehold()
+        .arg("plot")
+        .arg(&file)
+        .arg("--out")
+        .arg(dir.join("out"))
+        .output()
+        .unwrap();
+    let err = String::from_utf8_lossy(&st.stderr);
+    assert_eq!(st.status.code(), Some(2), "{err}");
+    assert!(err.contains("no converged drain current"), "{err}");
+    // The figures against L_g, the map and the band are still written, and no I_D-V_G file.
+    let names: Vec<String> = std::fs::read_dir(dir.join("out"))
+        .unwrap()
+        .map(|e| e.unwrap().file_name().to_string_lossy().into_owned())
+        .collect();
+    assert_eq!(names.len(), 10, "{names:?}");
+    assert!(names.iter().all(|n| !n.starts_with("iv_")));
 }

@@ -140,7 +140,7 @@ pub fn merge(args: &MergeArgs) -> anyhow::Result<Exit> {
     Ok(Exit::missing_if(failed > 0))
 }
 
-/// Runs `gatehold plot`.
+/// Runs `gatehold plot`: exit 2 when a figure the file should hold could not be drawn.
 pub fn plot(args: &PlotArgs) -> anyhow::Result<Exit> {
     if args.plan_dir.is_some() {
         eprintln!(
@@ -169,10 +169,10 @@ pub fn plot(args: &PlotArgs) -> anyhow::Result<Exit> {
     }
     let outcome = gatehold::plot::sweep_plots_with(&f, &args.out, &criteria)?;
     for note in &outcome.notes {
-        eprintln!("note: {note}");
+        eprintln!("note: {}", note.reason);
     }
     for p in &outcome.files {
         println!("{}", p.display());
     }
-    Ok(Exit::Done)
+    Ok(Exit::missing_if(outcome.figures_missing()))
 }

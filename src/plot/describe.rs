@@ -373,11 +373,32 @@ pub fn point_name(f: &SweepFile, k: usize) -> (String, String) {
     (title.join(", "), safe_name(&file.join("_")))
 }
 
+/// A figure left out, and why.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Omission {
+    pub reason: String,
+    /// True when the data should have held the figure (a solve that did not
+    /// converge); false when it never could (theory points have no curves).
+    pub expected: bool,
+}
+
+impl Omission {
+    fn missing(reason: String) -> Self {
+        Omission {
+            reason,
+            expected: true,
+        }
+    }
+}
+
 /// The figures of one point: I_D-V_G, and where a map is stored, the
 /// potential map and the band edge along the leakiest path.
 #[derive(Debug, Clone)]
 pub struct PointFigures<'a> {
-    pub iv: Figure,
+    /// The file-name form of the point's axis values.
+    pub name: String,
+    /// None when no bias point has a current.
+    pub iv: Option<Figure>,
     pub map: Option<MapFigure<'a>>,
     pub band: Option<Figure>,
 }
@@ -521,10 +542,9 @@ fn map_figure<'a>(
 }
 
 /// The per-point figures a sweep file supports: every point holding a map,
-/// else the first ok point with curves. Returns the figures and a note for
-/// every chosen point left out (theory points have no curves; a failed
-/// point may have none).
-pub fn point_figures(f: &SweepFile) -> (Vec<PointFigures<'_>>, Vec<String>) {
+/// else the first ok point with curves. Returns the figures and what was
+/// left out (theory points have no curves; a failed point may have none).
+pub fn point_figures(f: &SweepFile) -> (Vec<PointFigures<'_>>, Vec<Omission>) {
     let mut chosen: Vec<usize> = (0..f.rows.len())
         .filter(|&k| f.rows[k].map.is_some())
         .collect();
@@ -534,11 +554,12 @@ pub fn point_figures(f: &SweepFile) -> (Vec<PointFigures<'_>>, Vec<String>) {
             .find(|&k| f.rows[k].status.is_ok() && !f.rows[k].curve.vgs_v.is_empty())
         {
             Some(k) => chosen.push(k),
-            None if !f.rows.is_empty() => notes.push(
-                "no I_D-V_G figure: no point of this file holds curves (fins and wires are \
-                 theory points, with no along-channel solve)"
+            None if !f.rows.is_empty() => notes.push(Omission {
+                reason: "no I_D-V_G figure: no point of this file holds curves (fins and \
+                         wires are theory points, with no along-channel solve)"
                     .to_string(),
-            ),
+                expected: f.rows.iter().any(|r| !r.curve.vgs_v.is_empty()),
+            }),
             None => {}
         }
     }
@@ -558,13 +579,12 @@ pub fn point_figures(f: &SweepFile) -> (Vec<PointFigures<'_>>, Vec<String>) {
             (vt(k, "vt_lin_V"), vt(k, "vt_sat_V")),
             None,
         );
-        let Some(iv) = iv else {
-            notes.push(format!(
+        if iv.is_none() {
+            notes.push(Omission::missing(format!(
                 "point {} ({title}): no converged drain current, no I_D-V_G figure",
                 r.index
-            ));
-            continue;
-        };
+            )));
+        }
         let map = r
             .map
             .as_ref()
@@ -572,24 +592,34 @@ pub fn point_figures(f: &SweepFile) -> (Vec<PointFigures<'_>>, Vec<String>) {
         let band = r.map.as_ref().and_then(|m| {
             band_figure(
                 &format!("band_{file}"),
-                &format!("Band edge along the leakiest path: {title}"),
+                &format!("Band edge along the leakiest path, off state: {title}"),
                 m,
                 r.vds_v,
             )
         });
         if r.map.is_some() && (map.is_none() || band.is_none()) {
-            notes.push(format!(
+            notes.push(Omission::missing(format!(
                 "point {} ({title}): no converged off-state potential, no map or band figure",
                 r.index
-            ));
+            )));
         }
-        out.push(PointFigures { iv, map, band });
+        if iv.is_some() || map.is_some() || band.is_some() {
+            out.push(PointFigures {
+                name: file,
+                iv,
+                map,
+                band,
+            });
+        }
     }
     // Distinct file names even when two points show the same values.
     let mut seen = std::collections::BTreeSet::new();
     for (n, p) in out.iter_mut().enumerate() {
-        if !seen.insert(p.iv.stem.clone()) {
-            p.iv.stem = format!("{}_{n}", p.iv.stem);
+        if !seen.insert(p.name.clone()) {
+            p.name = format!("{}_{n}", p.name);
+            if let Some(i) = &mut p.iv {
+                i.stem = format!("{}_{n}", i.stem);
+            }
             if let Some(m) = &mut p.map {
                 m.stem = format!("{}_{n}", m.stem);
             }
@@ -605,7 +635,7 @@ pub fn point_figures(f: &SweepFile) -> (Vec<PointFigures<'_>>, Vec<String>) {
 pub fn device_figures<'a>(
     sol: &DeviceSolution,
     map: &'a MapData,
-) -> (Option<PointFigures<'a>>, Vec<String>) {
+) -> (Option<PointFigures<'a>>, Vec<Omission>) {
     let r = &sol.report;
     let nan = |v: &Vec<Option<f64>>| v.iter().map(|x| x.unwrap_or(f64::NAN)).collect();
     let curve = CurveData {
@@ -625,25 +655,28 @@ pub fn device_figures<'a>(
     ) else {
         return (
             None,
-            vec![format!("{name}: no converged drain current, no figures")],
+            vec![Omission::missing(format!(
+                "{name}: no converged drain current, no figures"
+            ))],
         );
     };
     let mut notes = Vec::new();
     let mapf = map_figure("potential_map", &name, map, vds);
     let band = band_figure(
         "band",
-        &format!("Band edge along the leakiest path: {name}"),
+        &format!("Band edge along the leakiest path, off state: {name}"),
         map,
         vds,
     );
     if mapf.is_none() || band.is_none() {
-        notes.push(format!(
+        notes.push(Omission::missing(format!(
             "{name}: no converged off-state potential, no map or band figure"
-        ));
+        )));
     }
     (
         Some(PointFigures {
-            iv,
+            name: String::new(),
+            iv: Some(iv),
             map: mapf,
             band,
         }),

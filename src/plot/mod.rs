@@ -314,7 +314,14 @@ pub fn band_plot(
 #[derive(Debug, Clone, Default, PartialEq)]
 pub struct PlotOutcome {
     pub files: Vec<PathBuf>,
-    pub notes: Vec<String>,
+    pub notes: Vec<describe::Omission>,
+}
+
+impl PlotOutcome {
+    /// True when a figure the data should have held is missing.
+    pub fn figures_missing(&self) -> bool {
+        self.notes.iter().any(|n| n.expected)
+    }
 }
 
 fn write_point(
@@ -322,7 +329,9 @@ fn write_point(
     p: &describe::PointFigures<'_>,
     out: &mut PlotOutcome,
 ) -> Result<(), PlotError> {
-    out.files.extend(write_figure(dir, &p.iv)?);
+    if let Some(iv) = &p.iv {
+        out.files.extend(write_figure(dir, iv)?);
+    }
     if let Some(m) = &p.map {
         out.files.extend(write_map(dir, m)?);
     }
@@ -339,7 +348,10 @@ pub fn device_plots(sol: &DeviceSolution, dir: &Path) -> Result<Vec<PathBuf>, Pl
     let mut out = PlotOutcome::default();
     match fig {
         Some(p) => write_point(dir, &p, &mut out)?,
-        None => return Err(PlotError::Empty(notes.join("; "))),
+        None => {
+            let why: Vec<String> = notes.into_iter().map(|n| n.reason).collect();
+            return Err(PlotError::Empty(why.join("; ")));
+        }
     }
     Ok(out.files)
 }
@@ -373,8 +385,11 @@ pub fn sweep_plots_with(
     let mut out = PlotOutcome::default();
     let length = describe::length_figures(f, criteria);
     if length.is_empty() {
-        out.notes
-            .push("no roll-off, DIBL or SS figure: no point of this file has those figures".into());
+        out.notes.push(describe::Omission {
+            reason: "no roll-off, DIBL or SS figure: no point of this file has those figures"
+                .into(),
+            expected: !f.rows.is_empty(),
+        });
     }
     for fig in &length {
         out.files.extend(write_figure(dir, fig)?);
