@@ -133,7 +133,12 @@ fn reduced_demo_file_summary_and_plots_agree() {
     assert!(summary.contains("Caution: Screening-level"));
 
     // Plots: every figure against L_g plus the mapped point, non-empty PNG and SVG.
-    for stem in ["dibl", "ss", "vt_rolloff", "point_000002_potential_map"] {
+    for stem in [
+        "dibl",
+        "ss",
+        "vt_rolloff",
+        "potential_map_Lg-14nm_double-gate",
+    ] {
         let png = std::fs::read(out.join(format!("{stem}.png"))).unwrap();
         assert!(
             png.len() > 1000 && png.starts_with(b"\x89PNG"),

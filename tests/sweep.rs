@@ -587,9 +587,9 @@ fn plots_from_a_sweep_file_and_a_device() {
         "vt_rolloff.png",
         "dibl.svg",
         "ss.png",
-        "point_000001_iv.png",
-        "point_000004_potential_map.svg",
-        "point_000004_band.png",
+        "iv_Lg-10nm_tsi-7nm_WF-4.65eV.png",
+        "potential_map_Lg-20nm_tsi-5nm_WF-4.6eV.svg",
+        "band_Lg-20nm_tsi-5nm_WF-4.6eV.png",
     ] {
         assert!(
             names.iter().any(|n| n == want),

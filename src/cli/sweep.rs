@@ -64,6 +64,15 @@ pub struct PlotArgs {
     /// No longer needed (the theory curves are stored in the sweep file); accepted and ignored.
     #[arg(long, value_name = "DIR", hide = true)]
     pub plan_dir: Option<PathBuf>,
+    /// Criterion line on the DIBL plot, mV/V (default: the plan's `[criteria]` stored in the file).
+    #[arg(long, value_name = "MV_PER_V")]
+    pub dibl_max: Option<f64>,
+    /// Criterion line on the SS plot, mV/dec (default: the plan's `[criteria]`).
+    #[arg(long, value_name = "MV_PER_DEC")]
+    pub ss_max: Option<f64>,
+    /// Bound on |V_t roll-off|, mV, drawn on the roll-off plot (default: the plan's `[criteria]`).
+    #[arg(long, value_name = "MV")]
+    pub vt_rolloff_max: Option<f64>,
 }
 
 /// `--shard I/N`, checked by the argument parser (a bad value is a usage error, exit 64).
@@ -150,7 +159,7 @@ pub fn merge(args: &MergeArgs) -> anyhow::Result<Exit> {
     Ok(Exit::missing_if(failed > 0))
 }
 
-/// Runs `gatehold plot`.
+/// Runs `gatehold plot`: exit 2 when a figure the file should hold could not be drawn.
 pub fn plot(args: &PlotArgs) -> anyhow::Result<Exit> {
     if args.plan_dir.is_some() {
         eprintln!(
@@ -158,9 +167,31 @@ pub fn plot(args: &PlotArgs) -> anyhow::Result<Exit> {
         );
     }
     let f = gatehold::io::hdf5::read_sweep(&args.file)?;
-    let files = gatehold::plot::sweep_plots(&f, &args.out)?;
-    for p in &files {
+    let mut criteria = gatehold::plot::plan_criteria(&f)
+        .with_context(|| format!("sweep file {}", args.file.display()))?;
+    for (option, value, slot) in [
+        ("--dibl-max", args.dibl_max, &mut criteria.dibl_max_mv_per_v),
+        ("--ss-max", args.ss_max, &mut criteria.ss_max_mv_per_dec),
+        (
+            "--vt-rolloff-max",
+            args.vt_rolloff_max,
+            &mut criteria.vt_rolloff_max_mv,
+        ),
+    ] {
+        if let Some(v) = value {
+            anyhow::ensure!(
+                v.is_finite() && v > 0.0,
+                "{option} {v}: must be a finite number > 0"
+            );
+            *slot = Some(v);
+        }
+    }
+    let outcome = gatehold::plot::sweep_plots_with(&f, &args.out, &criteria)?;
+    for note in &outcome.notes {
+        eprintln!("note: {}", note.reason);
+    }
+    for p in &outcome.files {
         println!("{}", p.display());
     }
-    Ok(Exit::Done)
+    Ok(Exit::missing_if(outcome.figures_missing()))
 }

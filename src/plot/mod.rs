@@ -2,10 +2,18 @@
 //!
 //! Drawing only: every curve comes from the data handed in (the theory
 //! curves from the columns the sweep stored beside the solved figures).
+//! Each figure is first described ([`figure::Figure`], [`map::MapFigure`],
+//! built from the data by [`describe`]) and only then drawn ([`draw`]), and
+//! a file is written only for a figure that has something to draw.
 //!
-//! Entry points: [`sweep_plots`] (everything a sweep file holds),
-//! [`device_plots`] (one solved device), and the single figures
-//! [`figure_vs_length`], [`iv_plot`], [`map_plot`], [`band_plot`].
+//! Entry points: [`sweep_plots`] (everything a sweep file holds, with the
+//! plan's criteria), [`sweep_plots_with`] (other criteria, and notes on what
+//! was left out), [`device_plots`] (one solved device), and the single
+//! figures [`figure_vs_length`], [`iv_plot`], [`map_plot`], [`band_plot`].
+//! Solved values are solid lines with filled markers; theory is dashed with
+//! hollow markers and "(theory)" in its label; points without a value are
+//! crossed on the x axis and counted in the legend; criteria are dotted
+//! lines and each series' shortest compliant length is ringed.
 //! Colour scheme ("harbour"): deep teal, brick, ochre, slate blue, moss, plum,
 //! ink, rose; potential maps run from deep blue through sea green and straw to brick.
 
@@ -13,11 +21,17 @@ use std::error::Error;
 use std::path::{Path, PathBuf};
 use std::sync::OnceLock;
 
-use plotters::coord::Shift;
 use plotters::prelude::*;
 
-use crate::evaluate::DeviceSolution;
-use crate::io::{series_labels, CurveData, MapData, SweepFile};
+use crate::evaluate::{Criteria, DeviceSolution};
+use crate::io::{CurveData, MapData, SweepFile};
+
+pub mod describe;
+pub mod figure;
+pub mod map;
+
+use figure::{Figure, Style, Trace};
+use map::MapFigure;
 
 /// The font family registered from the embedded DejaVu Sans.
 pub const FONT: &str = "sans-serif";
@@ -75,7 +89,9 @@ fn fonts() -> Result<(), PlotError> {
 
 type DrawResult = Result<(), Box<dyn Error>>;
 
-/// The legend box every figure uses.
+/// The legend box of plotters' own legend (the figures here draw their own
+/// legend panel, [`draw`]).
+#[allow(dead_code)]
 fn draw_legend<'a, DB: DrawingBackend + 'a, CT: plotters::coord::CoordTranslate>(
     chart: &mut ChartContext<'a, DB, CT>,
     font_size: u32,
@@ -95,6 +111,7 @@ where
 }
 
 /// A solid labelled line in colour `c` on a linear chart.
+#[allow(dead_code)]
 fn draw_solid<'a, DB: DrawingBackend + 'a>(
     chart: &mut ChartContext<
         'a,
@@ -114,7 +131,8 @@ where
     Ok(())
 }
 
-/// Draws the same figure to `dir/stem.png` and `dir/stem.svg`.
+/// Draws the same figure to `dir/stem.png` and `dir/stem.svg` (both removed
+/// again if drawing fails, so that no partial file is left).
 macro_rules! render {
     ($dir:expr, $stem:expr, $size:expr, |$root:ident| $body:expr) => {{
         fonts()?;
@@ -132,9 +150,12 @@ macro_rules! render {
                 $root.present()?;
                 Ok(())
             })();
-            r.map_err(|e| PlotError::Draw {
-                path: png.display().to_string(),
-                reason: e.to_string(),
+            r.map_err(|e| {
+                let _ = std::fs::remove_file(&png);
+                PlotError::Draw {
+                    path: png.display().to_string(),
+                    reason: e.to_string(),
+                }
             })?;
         }
         {
@@ -145,15 +166,20 @@ macro_rules! render {
                 $root.present()?;
                 Ok(())
             })();
-            r.map_err(|e| PlotError::Draw {
-                path: svg.display().to_string(),
-                reason: e.to_string(),
+            r.map_err(|e| {
+                let _ = std::fs::remove_file(&png);
+                let _ = std::fs::remove_file(&svg);
+                PlotError::Draw {
+                    path: svg.display().to_string(),
+                    reason: e.to_string(),
+                }
             })?;
         }
         Ok::<Vec<PathBuf>, PlotError>(vec![png, svg])
     }};
 }
 
+#[allow(dead_code)]
 fn span(vals: impl Iterator<Item = f64>) -> Option<(f64, f64)> {
     let (lo, hi) = vals
         .filter(|v| v.is_finite())
@@ -171,139 +197,6 @@ fn span(vals: impl Iterator<Item = f64>) -> Option<(f64, f64)> {
     Some((lo - pad, hi + pad))
 }
 
-fn draw_vs_length<DB: DrawingBackend>(
-    root: &DrawingArea<DB, Shift>,
-    title: &str,
-    y_desc: &str,
-    solved: &[Series],
-    theory: &[Series],
-) -> DrawResult
-where
-    DB::ErrorType: 'static,
-{
-    let all = || solved.iter().chain(theory).flat_map(|s| s.points.iter());
-    let (x0, x1) = span(all().map(|p| p.0)).ok_or("no finite values")?;
-    let (y0, y1) = span(all().map(|p| p.1)).ok_or("no finite values")?;
-    let mut chart = ChartBuilder::on(root)
-        .caption(title, (FONT, 22))
-        .margin(12)
-        .x_label_area_size(45)
-        .y_label_area_size(70)
-        .build_cartesian_2d(x0..x1, y0..y1)?;
-    chart
-        .configure_mesh()
-        .x_desc("gate length L_g (nm)")
-        .y_desc(y_desc)
-        .label_style((FONT, 14))
-        .light_line_style(RGBColor(235, 235, 235))
-        .draw()?;
-    for (k, s) in solved.iter().enumerate() {
-        let c = PALETTE[k % PALETTE.len()];
-        draw_solid(&mut chart, s, c)?;
-        chart.draw_series(s.points.iter().map(|&p| Circle::new(p, 4, c.filled())))?;
-    }
-    for (k, s) in theory.iter().enumerate() {
-        let c = solved
-            .iter()
-            .position(|m| m.label == s.label)
-            .map(|i| PALETTE[i % PALETTE.len()])
-            .unwrap_or(PALETTE[(solved.len() + k) % PALETTE.len()]);
-        chart
-            .draw_series(DashedLineSeries::new(
-                s.points.iter().copied(),
-                8,
-                5,
-                c.stroke_width(2),
-            ))?
-            .label(format!("{} (theory)", s.label))
-            .legend(move |(x, y)| PathElement::new(vec![(x, y), (x + 18, y)], c.stroke_width(1)));
-    }
-    draw_legend(&mut chart, 13, SeriesLabelPosition::UpperRight)
-}
-
-/// A figure against gate length: solved series (lines with markers) and
-/// optional theory series (dashed). Writes `dir/stem.png` and `.svg`.
-pub fn figure_vs_length(
-    dir: &Path,
-    stem: &str,
-    title: &str,
-    y_desc: &str,
-    solved: &[Series],
-    theory: &[Series],
-) -> Result<Vec<PathBuf>, PlotError> {
-    if solved.iter().chain(theory).all(|s| s.points.is_empty()) {
-        return Err(PlotError::Empty(format!("{stem}: no finite values")));
-    }
-    render!(dir, stem, (900, 600), |root| draw_vs_length(
-        &root, title, y_desc, solved, theory
-    ))
-}
-
-fn draw_iv<DB: DrawingBackend>(
-    root: &DrawingArea<DB, Shift>,
-    title: &str,
-    c: &CurveData,
-    vds: (f64, f64),
-) -> DrawResult
-where
-    DB::ErrorType: 'static,
-{
-    let pos = |v: &[f64]| -> Vec<(f64, f64)> {
-        c.vgs_v
-            .iter()
-            .zip(v)
-            .filter(|(_, i)| i.is_finite() && i.abs() > 0.0)
-            .map(|(&g, &i)| (g, i.abs()))
-            .collect()
-    };
-    let (lin, sat) = (pos(&c.id_lin), pos(&c.id_sat));
-    let (x0, x1) = span(c.vgs_v.iter().copied()).ok_or("no gate voltages")?;
-    let ys = lin.iter().chain(&sat).map(|p| p.1);
-    let (lo, hi) = ys.fold((f64::INFINITY, 0f64), |(a, b), v| (a.min(v), b.max(v)));
-    if !lo.is_finite() {
-        return Err("no converged current".into());
-    }
-    let (lo, hi) = (
-        10f64.powf(lo.log10().floor()),
-        10f64.powf(hi.log10().ceil()).max(lo * 10.0),
-    );
-    let mut chart = ChartBuilder::on(root)
-        .caption(title, (FONT, 22))
-        .margin(12)
-        .x_label_area_size(45)
-        .y_label_area_size(80)
-        .build_cartesian_2d(x0..x1, (lo..hi).log_scale())?;
-    chart
-        .configure_mesh()
-        .x_desc("gate voltage V_GS (V)")
-        .y_desc("|I_D| (A/um)")
-        .y_label_formatter(&|v| format!("{v:.0e}"))
-        .label_style((FONT, 14))
-        .draw()?;
-    for (k, (pts, v)) in [(lin, vds.0), (sat, vds.1)].into_iter().enumerate() {
-        let col = PALETTE[k];
-        chart
-            .draw_series(LineSeries::new(pts.iter().copied(), col.stroke_width(2)))?
-            .label(format!("V_DS = {v} V"))
-            .legend(move |(x, y)| PathElement::new(vec![(x, y), (x + 18, y)], col.stroke_width(2)));
-        chart.draw_series(pts.iter().map(|&p| Circle::new(p, 3, col.filled())))?;
-    }
-    draw_legend(&mut chart, 14, SeriesLabelPosition::LowerRight)
-}
-
-/// I_D-V_G on a log scale at both drain biases (`vds` = (lin, sat), V).
-pub fn iv_plot(
-    dir: &Path,
-    stem: &str,
-    title: &str,
-    curve: &CurveData,
-    vds: (f64, f64),
-) -> Result<Vec<PathBuf>, PlotError> {
-    render!(dir, stem, (900, 600), |root| draw_iv(
-        &root, title, curve, vds
-    ))
-}
-
 fn scale_colour(t: f64) -> RGBColor {
     let t = if t.is_finite() {
         t.clamp(0.0, 1.0)
@@ -317,104 +210,74 @@ fn scale_colour(t: f64) -> RGBColor {
     RGBColor(mix(a.0, b.0), mix(a.1, b.1), mix(a.2, b.2))
 }
 
-fn draw_map<DB: DrawingBackend>(
-    root: &DrawingArea<DB, Shift>,
-    title: &str,
-    m: &MapData,
-    psi: &[f64],
-) -> DrawResult
-where
-    DB::ErrorType: 'static,
-{
-    let (nx, ny) = (m.nx(), m.ny());
-    let (lo, hi) = psi
-        .iter()
-        .filter(|v| v.is_finite())
-        .fold((f64::INFINITY, f64::NEG_INFINITY), |(a, b), &v| {
-            (a.min(v), b.max(v))
-        });
-    let range = (hi - lo).max(1e-12);
-    let (main, bar) = root.split_horizontally(root.dim_in_pixel().0.saturating_sub(110));
-    let (x0, x1) = (m.x_nm[0], m.x_nm[nx - 1]);
-    let (y0, y1) = (m.y_nm[0], m.y_nm[ny - 1]);
-    let mut chart = ChartBuilder::on(&main)
-        .caption(title, (FONT, 20))
-        .margin(12)
-        .x_label_area_size(45)
-        .y_label_area_size(60)
-        .build_cartesian_2d(x0..x1, y1..y0)?;
-    chart
-        .configure_mesh()
-        .disable_mesh()
-        .x_desc("x (nm)")
-        .y_desc("y (nm)")
-        .label_style((FONT, 14))
-        .draw()?;
-    let metal = RGBColor(0xb8, 0xb8, 0xb8);
-    chart.draw_series(
-        (0..ny - 1)
-            .flat_map(|j| (0..nx - 1).map(move |i| (i, j)))
-            .map(|(i, j)| {
-                let code = m.material[i + j * (nx - 1)];
-                let c = if code >= 2 {
-                    metal
-                } else {
-                    let v = 0.25
-                        * (psi[i + j * nx]
-                            + psi[i + 1 + j * nx]
-                            + psi[i + (j + 1) * nx]
-                            + psi[i + 1 + (j + 1) * nx]);
-                    scale_colour((v - lo) / range)
-                };
-                Rectangle::new(
-                    [(m.x_nm[i], m.y_nm[j]), (m.x_nm[i + 1], m.y_nm[j + 1])],
-                    c.filled(),
-                )
-            }),
-    )?;
-    // Material outlines: cell edges between different materials.
-    let mut segs = Vec::new();
-    for j in 0..ny - 1 {
-        for i in 0..nx - 1 {
-            let c = m.material[i + j * (nx - 1)];
-            if i + 1 < nx - 1 && m.material[i + 1 + j * (nx - 1)] != c {
-                segs.push([(m.x_nm[i + 1], m.y_nm[j]), (m.x_nm[i + 1], m.y_nm[j + 1])]);
-            }
-            if j + 1 < ny - 1 && m.material[i + (j + 1) * (nx - 1)] != c {
-                segs.push([(m.x_nm[i], m.y_nm[j + 1]), (m.x_nm[i + 1], m.y_nm[j + 1])]);
-            }
-        }
+pub mod draw;
+
+/// Writes a described figure to `dir/STEM.png` and `.svg`; refuses (and
+/// writes nothing) when it has nothing to draw.
+pub fn write_figure(dir: &Path, fig: &Figure) -> Result<Vec<PathBuf>, PlotError> {
+    if !fig.is_drawable() {
+        return Err(PlotError::Empty(format!("{}: no finite values", fig.stem)));
     }
-    chart.draw_series(
-        segs.into_iter()
-            .map(|s| PathElement::new(s.to_vec(), BLACK.stroke_width(1))),
-    )?;
-    // Colour bar.
-    let mut cb = ChartBuilder::on(&bar)
-        .margin_top(40)
-        .margin_bottom(57)
-        .margin_right(10)
-        .y_label_area_size(55)
-        .build_cartesian_2d(0f64..1f64, lo..hi.max(lo + 1e-12))?;
-    cb.configure_mesh()
-        .disable_mesh()
-        .disable_x_axis()
-        .y_desc("potential (V)")
-        .label_style((FONT, 12))
-        .draw()?;
-    let steps = 64;
-    cb.draw_series((0..steps).map(|k| {
-        let a = lo + range * k as f64 / steps as f64;
-        let b = lo + range * (k + 1) as f64 / steps as f64;
-        Rectangle::new(
-            [(0.0, a), (1.0, b)],
-            scale_colour((k as f64 + 0.5) / steps as f64).filled(),
-        )
-    }))?;
-    Ok(())
+    render!(dir, &fig.stem, draw::FIGURE_SIZE, |root| draw::draw_figure(
+        &root, fig
+    ))
 }
 
-/// The potential map (`psi` node values, V) with material outlines; metal grey.
+/// Writes a described potential map to `dir/STEM.png` and `.svg`.
+pub fn write_map(dir: &Path, fig: &MapFigure<'_>) -> Result<Vec<PathBuf>, PlotError> {
+    render!(dir, &fig.stem, draw::MAP_SIZE, |root| draw::draw_map(
+        &root, fig
+    ))
+}
+
+/// A figure against gate length: solved series (solid lines, filled
+/// markers) and optional theory series (dashed, hollow markers,
+/// "(theory)"); a theory series takes the colour of the solved series of the
+/// same label. Writes `dir/stem.png` and `.svg`.
+pub fn figure_vs_length(
+    dir: &Path,
+    stem: &str,
+    title: &str,
+    y_desc: &str,
+    solved: &[Series],
+    theory: &[Series],
+) -> Result<Vec<PathBuf>, PlotError> {
+    let mut fig = Figure::new(stem, title, "gate length L_g (nm)", y_desc);
+    for (k, s) in solved.iter().enumerate() {
+        fig.traces.push(Trace {
+            label: s.label.clone(),
+            points: s.points.clone(),
+            style: Style::solved(k),
+        });
+    }
+    for (k, s) in theory.iter().enumerate() {
+        let c = solved
+            .iter()
+            .position(|m| m.label == s.label)
+            .unwrap_or(solved.len() + k);
+        fig.traces.push(Trace {
+            label: format!("{} (theory)", s.label),
+            points: s.points.clone(),
+            style: Style::theory(c),
+        });
+    }
+    write_figure(dir, &fig)
+}
+
+/// I_D-V_G on a log scale at both drain biases (`vds` = (lin, sat), V).
+pub fn iv_plot(
+    dir: &Path,
+    stem: &str,
+    title: &str,
+    curve: &CurveData,
+    vds: (f64, f64),
+) -> Result<Vec<PathBuf>, PlotError> {
+    let fig = describe::iv_figure(stem, title, curve, vds, (None, None), None)
+        .ok_or_else(|| PlotError::Empty(format!("{stem}: no converged drain current")))?;
+    write_figure(dir, &fig)
+}
+
+/// The potential map (`psi` node values, V) with region outlines; metal grey.
 pub fn map_plot(
     dir: &Path,
     stem: &str,
@@ -422,55 +285,15 @@ pub fn map_plot(
     map: &MapData,
     psi: &[f64],
 ) -> Result<Vec<PathBuf>, PlotError> {
-    if psi.len() != map.nx() * map.ny() || map.nx() < 2 || map.ny() < 2 {
-        return Err(PlotError::Empty(format!(
+    let fig = MapFigure::new(stem, title, map, psi).ok_or_else(|| {
+        PlotError::Empty(format!(
             "{stem}: potential has {} values for a {}x{} mesh",
             psi.len(),
             map.nx(),
             map.ny()
-        )));
-    }
-    render!(dir, stem, (1000, 560), |root| draw_map(
-        &root, title, map, psi
-    ))
-}
-
-fn draw_band<DB: DrawingBackend>(
-    root: &DrawingArea<DB, Shift>,
-    title: &str,
-    m: &MapData,
-    curves: &[Series],
-) -> DrawResult
-where
-    DB::ErrorType: 'static,
-{
-    let (x0, x1) = (m.x_nm[0], m.x_nm[m.nx() - 1]);
-    let (y0, y1) =
-        span(curves.iter().flat_map(|s| s.points.iter().map(|p| p.1))).ok_or("no band values")?;
-    let mut chart = ChartBuilder::on(root)
-        .caption(title, (FONT, 20))
-        .margin(12)
-        .x_label_area_size(45)
-        .y_label_area_size(70)
-        .build_cartesian_2d(x0..x1, y0..y1)?;
-    chart
-        .configure_mesh()
-        .x_desc("x along the channel (nm)")
-        .y_desc("band edge - source Fermi level (eV)")
-        .label_style((FONT, 14))
-        .draw()?;
-    for x in [m.gate_start_nm, m.gate_end_nm] {
-        chart.draw_series(DashedLineSeries::new(
-            vec![(x, y0), (x, y1)],
-            6,
-            4,
-            RGBColor(150, 150, 150).stroke_width(1),
-        ))?;
-    }
-    for (k, s) in curves.iter().enumerate() {
-        draw_solid(&mut chart, s, PALETTE[k % PALETTE.len()])?;
-    }
-    draw_legend(&mut chart, 14, SeriesLabelPosition::UpperRight)
+        ))
+    })?;
+    write_map(dir, &fig)
 }
 
 /// Channel-carrier band edge along the leakiest row at both drain biases
@@ -482,166 +305,99 @@ pub fn band_plot(
     map: &MapData,
     vds: (f64, f64),
 ) -> Result<Vec<PathBuf>, PlotError> {
-    let mut curves = Vec::new();
-    for (psi, depth, v) in [
-        (&map.psi_lin_v, map.leakiest_depth_lin_nm, vds.0),
-        (&map.psi_sat_v, map.leakiest_depth_sat_nm, vds.1),
-    ] {
-        if let (Some(p), Some(d)) = (psi, depth) {
-            curves.push(Series {
-                label: format!("V_DS = {v} V (depth {d:.1} nm)"),
-                points: map.band_along(p, d),
-            });
-        }
+    let fig = describe::band_figure(stem, title, map, vds)
+        .ok_or_else(|| PlotError::Empty(format!("{stem}: no converged off-state potential")))?;
+    write_figure(dir, &fig)
+}
+
+/// Files written, and what was left out and why (for the caller to show).
+#[derive(Debug, Clone, Default, PartialEq)]
+pub struct PlotOutcome {
+    pub files: Vec<PathBuf>,
+    pub notes: Vec<describe::Omission>,
+}
+
+impl PlotOutcome {
+    /// True when a figure the data should have held is missing.
+    pub fn figures_missing(&self) -> bool {
+        self.notes.iter().any(|n| n.expected)
     }
-    if curves.is_empty() {
-        return Err(PlotError::Empty(format!(
-            "{stem}: no converged off-state potential"
-        )));
+}
+
+fn write_point(
+    dir: &Path,
+    p: &describe::PointFigures<'_>,
+    out: &mut PlotOutcome,
+) -> Result<(), PlotError> {
+    if let Some(iv) = &p.iv {
+        out.files.extend(write_figure(dir, iv)?);
     }
-    render!(dir, stem, (900, 560), |root| draw_band(
-        &root, title, map, &curves
-    ))
+    if let Some(m) = &p.map {
+        out.files.extend(write_map(dir, m)?);
+    }
+    if let Some(b) = &p.band {
+        out.files.extend(write_figure(dir, b)?);
+    }
+    Ok(())
 }
 
 /// All figures of one solved device into `dir`: `iv`, `potential_map`, `band`.
 pub fn device_plots(sol: &DeviceSolution, dir: &Path) -> Result<Vec<PathBuf>, PlotError> {
-    let r = &sol.report;
-    let nan = |v: &Vec<Option<f64>>| v.iter().map(|x| x.unwrap_or(f64::NAN)).collect();
-    let curve = CurveData {
-        vgs_v: r.vgs_v.clone(),
-        id_lin: nan(&r.id_lin),
-        id_sat: nan(&r.id_sat),
-    };
     let map = MapData::of(sol);
-    per_point(
-        dir,
-        "",
-        &r.name,
-        &curve,
-        Some(&map),
-        (r.vds_lin_v, r.vds_sat_v),
-    )
+    let (fig, notes) = describe::device_figures(sol, &map);
+    let mut out = PlotOutcome::default();
+    match fig {
+        Some(p) => write_point(dir, &p, &mut out)?,
+        None => {
+            let why: Vec<String> = notes.into_iter().map(|n| n.reason).collect();
+            return Err(PlotError::Empty(why.join("; ")));
+        }
+    }
+    Ok(out.files)
 }
 
-fn per_point(
+/// The `[criteria]` of the plan stored in a sweep file (none: empty).
+pub fn plan_criteria(f: &SweepFile) -> Result<Criteria, PlotError> {
+    crate::sweep::plan::criteria_from_text(&f.meta.plan)
+        .map_err(|e| PlotError::Empty(format!("the stored plan's [criteria]: {e}")))
+}
+
+/// Every figure a sweep file supports, into `dir`, judged against the
+/// plan's own `[criteria]`: see [`sweep_plots_with`].
+pub fn sweep_plots(f: &SweepFile, dir: &Path) -> Result<Vec<PathBuf>, PlotError> {
+    let criteria = plan_criteria(f)?;
+    Ok(sweep_plots_with(f, dir, &criteria)?.files)
+}
+
+/// Every figure a sweep file supports, into `dir`: `vt_rolloff`, `dibl`,
+/// `ss` against L_g (one series per combination of the other axes, theory
+/// beside them, `criteria` as lines with each series' shortest compliant
+/// length ringed), and for every point holding a map (else the first ok
+/// point with curves) `iv_NAME`, `potential_map_NAME`, `band_NAME`, NAME
+/// made of the point's axis values (e.g. `iv_Lg-20nm_tsi-7nm`). Figures with
+/// nothing to draw are left out with a note; no file is started before its
+/// data is known to be drawable.
+pub fn sweep_plots_with(
+    f: &SweepFile,
     dir: &Path,
-    prefix: &str,
-    name: &str,
-    curve: &CurveData,
-    map: Option<&MapData>,
-    vds: (f64, f64),
-) -> Result<Vec<PathBuf>, PlotError> {
-    let mut out = iv_plot(
-        dir,
-        &format!("{prefix}iv"),
-        &format!("{name}: drain current"),
-        curve,
-        vds,
-    )?;
-    if let Some(m) = map {
-        if let Some(psi) = m.psi_sat_v.as_ref().or(m.psi_lin_v.as_ref()) {
-            let v = if m.psi_sat_v.is_some() { vds.1 } else { vds.0 };
-            out.extend(map_plot(
-                dir,
-                &format!("{prefix}potential_map"),
-                &format!("{name}: potential, off state, V_DS = {v} V"),
-                m,
-                psi,
-            )?);
-        }
-        out.extend(band_plot(
-            dir,
-            &format!("{prefix}band"),
-            &format!("{name}: band edge along the leakiest path"),
-            m,
-            vds,
-        )?);
+    criteria: &Criteria,
+) -> Result<PlotOutcome, PlotError> {
+    let mut out = PlotOutcome::default();
+    let length = describe::length_figures(f, criteria);
+    if length.is_empty() {
+        out.notes.push(describe::Omission {
+            reason: "no roll-off, DIBL or SS figure: no point of this file has those figures"
+                .into(),
+            expected: !f.rows.is_empty(),
+        });
+    }
+    for fig in &length {
+        out.files.extend(write_figure(dir, fig)?);
+    }
+    let (points, notes) = describe::point_figures(f);
+    out.notes.extend(notes);
+    for p in &points {
+        write_point(dir, p, &mut out)?;
     }
     Ok(out)
-}
-
-/// Every figure a sweep file supports, into `dir`: `vt_rolloff`, `dibl`, `ss`
-/// against L_g (one series per combination of the other axes, theory beside
-/// them when given), and for each point holding a map (or the first ok point)
-/// `point_NNNNNN_iv`, `_potential_map`, `_band`.
-pub fn sweep_plots(f: &SweepFile, dir: &Path) -> Result<Vec<PathBuf>, PlotError> {
-    let lg = f
-        .figure("gate_length_nm")
-        .ok_or_else(|| PlotError::Empty("no gate_length_nm column".into()))?;
-    let labels = series_labels(f);
-    let label = |k: usize| labels[k].clone();
-    let series_of = |name: &str| -> Vec<Series> {
-        let vals = f.figure(name).unwrap_or_default();
-        let mut out: Vec<Series> = Vec::new();
-        for (k, &x) in lg.iter().enumerate() {
-            let y = vals.get(k).copied().unwrap_or(f64::NAN);
-            if !(x.is_finite() && y.is_finite()) {
-                continue;
-            }
-            let l = label(k);
-            match out.iter_mut().find(|s| s.label == l) {
-                Some(s) => s.points.push((x, y)),
-                None => out.push(Series {
-                    label: l,
-                    points: vec![(x, y)],
-                }),
-            }
-        }
-        for s in &mut out {
-            s.points.sort_by(|a, b| a.0.total_cmp(&b.0));
-        }
-        out
-    };
-    let mut files = Vec::new();
-    for (stem, title, y, name, theory) in [
-        (
-            "vt_rolloff",
-            "Threshold roll-off",
-            "V_t,lin - V_t,long (mV)",
-            "vt_rolloff_mV",
-            "theory_rolloff_mV",
-        ),
-        (
-            "dibl",
-            "Drain-induced barrier lowering",
-            "DIBL (mV/V)",
-            "dibl_mV_per_V",
-            "theory_dibl_mV_per_V",
-        ),
-        (
-            "ss",
-            "Subthreshold swing at V_DS,sat",
-            "SS (mV/dec)",
-            "ss_sat_mV_per_dec",
-            "theory_ss_mV_per_dec",
-        ),
-    ] {
-        let solved = series_of(name);
-        // The theory stored beside the data, one series per solved series.
-        let th = series_of(theory);
-        if solved.is_empty() && th.is_empty() {
-            continue;
-        }
-        files.extend(figure_vs_length(dir, stem, title, y, &solved, &th)?);
-    }
-    let mut chosen: Vec<usize> = (0..f.rows.len())
-        .filter(|&k| f.rows[k].map.is_some())
-        .collect();
-    if chosen.is_empty() {
-        chosen.extend((0..f.rows.len()).find(|&k| f.rows[k].status.is_ok()));
-    }
-    for k in chosen {
-        let r = &f.rows[k];
-        let name = format!("point {}", r.index);
-        files.extend(per_point(
-            dir,
-            &format!("point_{:06}_", r.index),
-            &name,
-            &r.curve,
-            r.map.as_ref(),
-            r.vds_v,
-        )?);
-    }
-    Ok(files)
 }

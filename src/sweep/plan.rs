@@ -402,6 +402,15 @@ fn parse_criteria(root: &toml::Table) -> Result<Criteria, PlanError> {
     Ok(c)
 }
 
+/// The `[criteria]` of a plan's text alone (e.g. the plan stored in a sweep
+/// file, whose base device may no longer be at hand); none given: empty.
+pub fn criteria_from_text(text: &str) -> Result<Criteria, PlanError> {
+    let root: toml::Table = text
+        .parse()
+        .map_err(|e: toml::de::Error| PlanError::Syntax(e.to_string()))?;
+    parse_criteria(&root)
+}
+
 fn parse_maps(root: &toml::Table, total: usize) -> Result<BTreeSet<usize>, PlanError> {
     let mut maps = BTreeSet::new();
     let Some(v) = root.get("output") else {
