@@ -71,14 +71,20 @@ pub fn scan_lengths(
     lengths: &[f64],
     json: bool,
     jobs: Option<usize>,
+    criteria: &super::criteria::CriteriaArgs,
 ) -> Result<Exit> {
     let s = load(device)?;
+    let criteria = criteria.over(&Default::default())?;
     let pool = rayon::ThreadPoolBuilder::new()
         .num_threads(super::capped_jobs(jobs.unwrap_or(0)))
         .build()?;
     let dots = Dots::new(!json);
-    let r = pool.install(|| scan(&s, lengths, &dots))?;
+    let mut r = pool.install(|| scan(&s, lengths, &dots))?;
     dots.finish();
+    r.judge(&criteria);
+    if criteria.is_empty() && !json {
+        eprintln!("hint: give --dibl-max, --ss-max (and --vt-rolloff-max) for the shortest compliant gate length");
+    }
     if json {
         println!("{}", serde_json::to_string_pretty(&r)?);
     } else {

@@ -5,6 +5,7 @@
 use rayon::prelude::*;
 use serde::Serialize;
 
+use super::criteria::{shortest_compliant, Criteria, LengthPoint, ShortestAnswer};
 use super::device::evaluate;
 use super::reference::{Reference, ReferenceError};
 use super::report::{Method, Status, CAUTION};
@@ -25,6 +26,8 @@ pub struct ScanRow {
     pub dibl_mv_per_v: Option<f64>,
     #[serde(rename = "ss_lin_mV_per_dec")]
     pub ss_lin_mv_per_dec: Option<f64>,
+    #[serde(rename = "ss_sat_mV_per_dec")]
+    pub ss_sat_mv_per_dec: Option<f64>,
     #[serde(rename = "barrier_lowering_meV")]
     pub barrier_lowering_mev: Option<f64>,
     /// Theory (Liu et al., IEEE TED 40(1), 86, 1993) with the numeric body natural length.
@@ -63,7 +66,55 @@ pub struct ScanReport {
     #[serde(rename = "theory_barrier_V")]
     pub theory_barrier_v: f64,
     pub rows: Vec<ScanRow>,
+    /// The criteria judged by [`ScanReport::judge`] (null: none given).
+    pub criteria: Option<CriteriaSet>,
+    /// The shortest compliant length interpolated between the solved lengths (null: no criteria).
+    pub shortest: Option<ShortestAnswer>,
     pub caution: String,
+}
+
+/// The criteria of a scan as written in its JSON.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct CriteriaSet {
+    #[serde(rename = "dibl_max_mV_per_V")]
+    pub dibl_max_mv_per_v: Option<f64>,
+    #[serde(rename = "ss_max_mV_per_dec")]
+    pub ss_max_mv_per_dec: Option<f64>,
+    #[serde(rename = "vt_rolloff_max_mV")]
+    pub vt_rolloff_max_mv: Option<f64>,
+}
+
+impl ScanReport {
+    /// Judges the rows against `criteria` and stores the shortest compliant
+    /// length ([`shortest_compliant`]); no criteria clears it.
+    pub fn judge(&mut self, criteria: &Criteria) {
+        if criteria.is_empty() {
+            self.criteria = None;
+            self.shortest = None;
+            return;
+        }
+        // Fins and wires are judged on their theory figures (the method says so).
+        let theory = self.method == Method::Theory;
+        let pick = |solved: Option<f64>, th: Option<f64>| if theory { th } else { solved };
+        let points: Vec<LengthPoint> = self
+            .rows
+            .iter()
+            .map(|r| LengthPoint {
+                gate_length_nm: r.gate_length_nm,
+                dibl_mv_per_v: pick(r.dibl_mv_per_v, r.theory_dibl_mv_per_v),
+                ss_lin_mv_per_dec: pick(r.ss_lin_mv_per_dec, r.theory_ss_mv_per_dec),
+                ss_sat_mv_per_dec: pick(r.ss_sat_mv_per_dec, r.theory_ss_mv_per_dec),
+                vt_rolloff_mv: pick(r.vt_rolloff_mv, r.theory_rolloff_mv),
+                ok: r.status.is_ok(),
+            })
+            .collect();
+        self.criteria = Some(CriteriaSet {
+            dibl_max_mv_per_v: criteria.dibl_max_mv_per_v,
+            ss_max_mv_per_dec: criteria.ss_max_mv_per_dec,
+            vt_rolloff_max_mv: criteria.vt_rolloff_max_mv,
+        });
+        self.shortest = Some(shortest_compliant(&points, criteria));
+    }
 }
 
 /// Why a scan could not run at all (single lengths that fail are rows with a status).
@@ -114,6 +165,7 @@ pub fn scan(
                 vt_rolloff_mv: None,
                 dibl_mv_per_v: None,
                 ss_lin_mv_per_dec: None,
+                ss_sat_mv_per_dec: None,
                 barrier_lowering_mev: None,
                 theory_rolloff_mv: th.as_ref().map(|t| 1000.0 * t.roll_off_lin_v),
                 theory_dibl_mv_per_v: th.as_ref().map(|t| t.dibl_mv_per_v),
@@ -129,6 +181,7 @@ pub fn scan(
                         row.vt_rolloff_mv = r.vt_rolloff_mv;
                         row.dibl_mv_per_v = r.dibl_mv_per_v;
                         row.ss_lin_mv_per_dec = r.ss_lin_mv_per_dec;
+                        row.ss_sat_mv_per_dec = r.ss_sat_mv_per_dec;
                         row.barrier_lowering_mev = r.barrier_lowering_mev;
                         problems.extend(r.problems);
                     }
@@ -175,6 +228,8 @@ pub fn scan(
         ss_long_mv_per_dec: inputs.ss_long_mv_per_dec,
         theory_barrier_v: inputs.barrier_v,
         rows,
+        criteria: None,
+        shortest: None,
         caution: CAUTION.into(),
     })
 }

@@ -11,6 +11,7 @@
 pub mod device;
 pub mod lambda;
 pub mod scan;
+pub mod shortest;
 pub mod summary;
 
 /// A value with `digits` decimals, or "n/a".

@@ -51,6 +51,21 @@ pub fn render_text(r: &ScanReport) -> String {
             row.status
         ));
     }
+    if let (Some(c), Some(a)) = (&r.criteria, &r.shortest) {
+        let crit = crate::evaluate::Criteria {
+            dibl_max_mv_per_v: c.dibl_max_mv_per_v,
+            ss_max_mv_per_dec: c.ss_max_mv_per_dec,
+            vt_rolloff_max_mv: c.vt_rolloff_max_mv,
+        };
+        o.push('\n');
+        o.push_str(&super::shortest::heading(&crit));
+        o.push_str("  ");
+        o.push_str(&super::shortest::answer_line(
+            &r.name,
+            a,
+            Some(r.lambda_numeric_nm),
+        ));
+    }
     o.push_str(&format!("\nTheory: Liu et al., IEEE TED 40(1), 86, 1993, with the numeric natural length.\nCaution: {}\n", r.caution));
     o
 }
