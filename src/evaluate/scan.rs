@@ -10,6 +10,7 @@ use super::device::evaluate;
 use super::reference::{Reference, ReferenceError};
 use super::report::{Method, Status, CAUTION};
 use crate::device::{Architecture, Scenario};
+use crate::extract::electrical_length::{terada_muta, TeradaMuta};
 use crate::progress::Observer;
 use crate::theory::short_channel::{fit_lambda_from_dibl, LambdaFit};
 
@@ -38,6 +39,17 @@ pub struct ScanRow {
     #[serde(rename = "theory_ss_mV_per_dec")]
     pub theory_ss_mv_per_dec: Option<f64>,
     pub lg_over_lambda: f64,
+    pub l_met_nm: f64,
+    /// Electrical channel length (planar solves), nm.
+    pub l_elec_nm: Option<f64>,
+    #[serde(rename = "vt_rolloff_electrostatic_mV")]
+    pub vt_rolloff_electrostatic_mv: Option<f64>,
+    #[serde(rename = "vt_rolloff_length_mV")]
+    pub vt_rolloff_length_mv: Option<f64>,
+    #[serde(rename = "ioff_A_per_um")]
+    pub ioff_a_per_um: Option<f64>,
+    /// Cautions on this length's figures (merged junctions, L_elec below a few nm).
+    pub warnings: Vec<String>,
     /// "ok" or why something is missing.
     pub status: Status,
 }
@@ -58,6 +70,11 @@ pub struct ScanReport {
     /// Lambda fitted to the solved barrier lowering against L.
     pub lambda_fitted_barrier: Option<LambdaFit>,
     pub lambda_fit_note: String,
+    /// Delta L = L_g - L_elec by the channel-resistance method of Terada and
+    /// Muta (Jpn. J. Appl. Phys. 18, 953, 1979) across the solved lengths, at
+    /// two gate voltages in the subthreshold window of the longest length
+    /// (planar, two or more lengths; meaningful where the lengths are long).
+    pub terada_muta: Option<TeradaMuta>,
     #[serde(rename = "vt_long_V")]
     pub vt_long_v: f64,
     #[serde(rename = "ss_long_mV_per_dec")]
@@ -130,6 +147,33 @@ pub enum ScanError {
     Theory(String),
 }
 
+/// Terada-Muta across the solved lengths' V_DS,lin curves (L_g nm, gate
+/// voltages, currents, threshold current A/um): the two gate voltages are the
+/// lowest and highest grid points of the longest length's SS window (1e-3 to
+/// 1e-1 of its threshold current).
+fn terada_muta_of(
+    curves: &[(f64, Vec<f64>, Vec<Option<f64>>, f64)],
+    vds_v: f64,
+) -> Option<TeradaMuta> {
+    let longest = curves.iter().max_by(|a, b| a.0.total_cmp(&b.0))?;
+    let (_, v, i, target) = longest;
+    let window: Vec<f64> = v
+        .iter()
+        .zip(i)
+        .filter(|(_, c)| c.is_some_and(|c| c.abs() >= 1e-3 * target && c.abs() <= 1e-1 * target))
+        .map(|(vg, _)| *vg)
+        .collect();
+    let (lo, hi) = (*window.first()?, *window.last()?);
+    if lo == hi {
+        return None;
+    }
+    let refs: Vec<(f64, &[f64], &[Option<f64>])> = curves
+        .iter()
+        .map(|(l, v, i, _)| (*l, v.as_slice(), i.as_slice()))
+        .collect();
+    terada_muta(&refs, vds_v, (lo, hi))
+}
+
 /// Solves (planar) or predicts (fins and wires) each gate length, in parallel.
 pub fn scan(
     s: &Scenario,
@@ -150,7 +194,8 @@ pub fn scan(
         .map_err(|e| ScanError::Theory(e.to_string()))?;
     let inputs = reference.theory.clone().map_err(ScanError::Theory)?;
     let lambda = lam.lambda_numeric_nm;
-    let rows: Vec<ScanRow> = scenarios
+    type Curve = (f64, Vec<f64>, Vec<Option<f64>>, f64);
+    let solved: Vec<(ScanRow, Option<Curve>)> = scenarios
         .par_iter()
         .map(|sc| {
             let l = sc.geometry.gate_length_nm;
@@ -171,8 +216,15 @@ pub fn scan(
                 theory_dibl_mv_per_v: th.as_ref().map(|t| t.dibl_mv_per_v),
                 theory_ss_mv_per_dec: th.as_ref().map(|t| t.ss_mv_per_dec),
                 lg_over_lambda: l / lambda,
+                l_met_nm: f64::NAN,
+                l_elec_nm: None,
+                vt_rolloff_electrostatic_mv: None,
+                vt_rolloff_length_mv: None,
+                ioff_a_per_um: None,
+                warnings: Vec::new(),
                 status: Status::Ok,
             };
+            let mut curve = None;
             if sc.architecture.is_planar() {
                 match evaluate(sc, &reference, observer) {
                     Ok(ev) => {
@@ -183,15 +235,30 @@ pub fn scan(
                         row.ss_lin_mv_per_dec = r.ss_lin_mv_per_dec;
                         row.ss_sat_mv_per_dec = r.ss_sat_mv_per_dec;
                         row.barrier_lowering_mev = r.barrier_lowering_mev;
+                        row.l_met_nm = r.l_met_nm;
+                        row.l_elec_nm = r.l_elec_nm;
+                        row.vt_rolloff_electrostatic_mv = r.vt_rolloff_electrostatic_mv;
+                        row.vt_rolloff_length_mv = r.vt_rolloff_length_mv;
+                        row.ioff_a_per_um = r.ioff_a_per_um;
+                        row.warnings = r
+                            .warnings
+                            .iter()
+                            .filter(|w| w.contains("L_elec") || w.contains("junctions merge"))
+                            .cloned()
+                            .collect();
+                        curve = Some((l, r.vgs_v, r.id_lin, r.threshold_current_a_per_um));
                         problems.extend(r.problems);
                     }
                     Err(e) => problems.push(format!("solve: {e}")),
                 }
             }
             row.status = Status::from_problems(&problems);
-            row
+            (row, curve)
         })
         .collect();
+    let curves: Vec<Curve> = solved.iter().filter_map(|(_, c)| c.clone()).collect();
+    let rows: Vec<ScanRow> = solved.into_iter().map(|(r, _)| r).collect();
+    let terada_muta = terada_muta_of(&curves, s.bias.vds_lin_v);
     let fit = |pick: &dyn Fn(&ScanRow) -> Option<f64>| {
         let pts: Vec<(f64, f64)> = rows
             .iter()
@@ -218,6 +285,7 @@ pub fn scan(
         lambda_closed_forms: lam.lambda_closed_forms,
         lambda_fitted,
         lambda_fitted_barrier,
+        terada_muta,
         lambda_fit_note: "least-squares lines of ln(DIBL) and of ln(barrier lowering) against L over the solved \
                           lengths; lambda = -1/(2 slope) (leading exp(-L/(2 lambda)) term of Liu et al. 1993). \
                           Constant-current DIBL also holds a slowly decaying part (the drain shortens the \
