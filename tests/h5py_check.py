@@ -105,7 +105,25 @@ def check(path):
 
     cols = {k: clean(pts[k][:].tolist()) if pts[k].dtype.kind == "f" else [text(s).rstrip("\x00 ") for s in pts[k][:]]
             for k in axes + figures}
-    return {"file": path, "points": n, "point_index": idx, "status": status, "columns": cols,
+    shortest = None
+    if "shortest" in f:
+        g = f["shortest"]
+        m = g["series"].shape[0]
+        shortest = {}
+        for name, ds in g.items():
+            if ds.ndim != 1 or ds.shape[0] != m:
+                fail(path, f"shortest/{name} shape {ds.shape}, expected ({m},)")
+            for a in ["units", "description"]:
+                if a not in ds.attrs:
+                    fail(path, f"shortest/{name} has no {a} attribute")
+            v = ds[:].tolist() if ds.dtype.kind in "fi" else [text(s).rstrip("\x00 ") for s in ds[:]]
+            shortest[name] = clean(v) if ds.dtype.kind == "f" else v
+        for a in ["interpolation", "dibl_max_mV_per_V", "ss_max_mV_per_dec", "vt_rolloff_max_mV"]:
+            if a not in g.attrs:
+                fail(path, f"shortest attribute {a} missing")
+        shortest["criteria"] = {a: clean([float(g.attrs[a])])[0]
+                                for a in ["dibl_max_mV_per_V", "ss_max_mV_per_dec", "vt_rolloff_max_mV"]}
+    return {"file": path, "points": n, "shortest": shortest, "point_index": idx, "status": status, "columns": cols,
             "curve_total": int(total), "maps": maps, "complete": complete,
             "plan": text(f.attrs["plan"]),
             "method": [text(s) for s in pts["method"][:]] if v2 else None,

@@ -30,6 +30,9 @@ pub struct DemoArgs {
     /// Screening target on SS, mV/dec (default: the plan's 80; common practice, not a standard).
     #[arg(long, value_name = "MV_PER_DEC")]
     pub ss_max: Option<f64>,
+    /// Screening target on |V_t roll-off|, mV (default: none).
+    #[arg(long, value_name = "MV")]
+    pub vt_rolloff_max: Option<f64>,
     /// Gate lengths in nm, comma separated (default: the plan's 14 to 60 nm).
     #[arg(long, value_delimiter = ',', value_name = "NM,NM,...")]
     pub lengths: Option<Vec<f64>>,
@@ -46,7 +49,8 @@ pub fn demo(args: &DemoArgs) -> anyhow::Result<Exit> {
         dibl_max_mv_per_v: args.dibl_max,
         ss_max_mv_per_dec: args.ss_max,
     };
-    let plan = demo::plan(&options).context("demo plan")?;
+    let mut plan = demo::plan(&options).context("demo plan")?;
+    plan.criteria = plan.criteria.overridden(None, None, args.vt_rolloff_max)?;
     std::fs::create_dir_all(&args.out)
         .with_context(|| format!("cannot create {}", args.out.display()))?;
     let sweep_file = args.out.join(SWEEP_FILE);

@@ -74,6 +74,7 @@ pub fn scan_lengths(
     lengths: &[f64],
     json: bool,
     jobs: Option<usize>,
+    criteria: &super::criteria::CriteriaArgs,
 ) -> Result<Exit> {
     if lengths.len() > MAX_SCAN_LENGTHS {
         anyhow::bail!(
@@ -89,12 +90,17 @@ pub fn scan_lengths(
         anyhow::bail!("--lengths: {} nm is given twice", d.1);
     }
     let s = load(device)?;
+    let criteria = criteria.over(&Default::default())?;
     let pool = rayon::ThreadPoolBuilder::new()
         .num_threads(super::capped_jobs(jobs.unwrap_or(0)))
         .build()?;
     let dots = Dots::new(!json);
-    let r = pool.install(|| scan(&s, lengths, &dots))?;
+    let mut r = pool.install(|| scan(&s, lengths, &dots))?;
     dots.finish();
+    r.judge(&criteria);
+    if criteria.is_empty() && !json {
+        eprintln!("hint: give --dibl-max, --ss-max (and --vt-rolloff-max) for the shortest compliant gate length");
+    }
     if json {
         println!("{}", serde_json::to_string_pretty(&r)?);
     } else {

@@ -1,6 +1,7 @@
 //! The command line: each command's handler, progress on stderr, and the
 //! exit codes ([`exit::Exit`]). Only the binary uses this module.
 
+pub mod criteria;
 pub mod demo;
 pub mod device;
 pub mod exit;
@@ -65,6 +66,8 @@ enum Command {
         /// Worker threads (default: all cores).
         #[arg(long)]
         jobs: Option<usize>,
+        #[command(flatten)]
+        criteria: criteria::CriteriaArgs,
     },
     /// Run a plan of geometries in parallel into one HDF5 file.
     Sweep(sweep::SweepArgs),
@@ -124,7 +127,8 @@ pub fn run(cli: Cli) -> anyhow::Result<Exit> {
             lengths,
             json,
             jobs,
-        } => device::scan_lengths(&device, &lengths, json, jobs),
+            criteria,
+        } => device::scan_lengths(&device, &lengths, json, jobs, &criteria),
         Command::Sweep(a) => sweep::sweep(&a),
         Command::Merge(a) => sweep::merge(&a),
         Command::Plot(a) => sweep::plot(&a),

@@ -37,6 +37,8 @@ pub struct SweepArgs {
     /// Also write the points table as CSV here.
     #[arg(long)]
     pub csv: Option<PathBuf>,
+    #[command(flatten)]
+    pub criteria: super::criteria::CriteriaArgs,
     /// Stop after computing this many points (testing resume).
     #[arg(long, hide = true)]
     pub stop_after: Option<usize>,
@@ -86,7 +88,8 @@ fn command_line() -> String {
 
 /// Runs `gatehold sweep`.
 pub fn sweep(args: &SweepArgs) -> anyhow::Result<Exit> {
-    let plan = sweep::load_plan(&args.plan)?;
+    let mut plan = sweep::load_plan(&args.plan)?;
+    plan.criteria = args.criteria.over(&plan.criteria)?;
     let shard = args.shard.unwrap_or(Shard::ALL);
     let opts = SweepOptions {
         jobs: super::capped_jobs(args.jobs),
@@ -138,11 +141,43 @@ pub fn sweep(args: &SweepArgs) -> anyhow::Result<Exit> {
             }
         );
     }
+    if summary.complete {
+        print!("{}", answer_text(&args.out, &plan.criteria)?);
+    }
     Ok(if !summary.complete {
         Exit::Stopped
     } else {
         Exit::missing_if(summary.failed > 0)
     })
+}
+
+/// The per-series answer of a complete sweep file, read back from its `shortest` group.
+fn answer_text(out: &std::path::Path, criteria: &sweep::plan::Criteria) -> anyhow::Result<String> {
+    if criteria.is_empty() {
+        return Ok("no [criteria] in the plan and no --dibl-max/--ss-max/--vt-rolloff-max: no shortest compliant length\n".into());
+    }
+    let f = gatehold::io::hdf5::read_sweep(out)?;
+    let outcomes = sweep::shortest::per_series(&f, criteria);
+    let mut t = gatehold::render::shortest::heading(criteria);
+    for o in &outcomes {
+        t.push_str("  ");
+        t.push_str(&gatehold::render::shortest::answer_line(
+            &o.label,
+            &o.answer,
+            o.lambda_numeric_nm,
+        ));
+        if o.failed_points > 0 {
+            t.push_str(&format!(
+                "    ({} point(s) of this series failed; see `status` in the file)\n",
+                o.failed_points
+            ));
+        }
+    }
+    t.push_str(&format!(
+        "(stored in the group `shortest` of {})\n",
+        out.display()
+    ));
+    Ok(t)
 }
 
 /// Runs `gatehold merge`.

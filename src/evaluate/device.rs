@@ -7,6 +7,7 @@
 use super::reference::{Reference, ReferenceError};
 use super::report::{DeviceReport, Method, CAUTION};
 use crate::device::Scenario;
+use crate::extract::electrical_length::L_ELEC_WARN_NM;
 use crate::extract::{self, ascending, ramp_figures, Barrier};
 use crate::progress::{Observer, SolveKind};
 use crate::solve::{DeviceSolver, GateRamp, PoissonSolver, SolveError};
@@ -174,6 +175,8 @@ pub fn solve_planar(
             warnings: s.warnings.clone(),
         },
     );
+    let mut report = report;
+    add_length_figures(s, &structure, &lin, &sat, &mut report);
     Ok(DeviceSolution {
         report,
         structure,
@@ -182,6 +185,129 @@ pub fn solve_planar(
         barrier_lin,
         barrier_sat,
     })
+}
+
+/// Largest gate step of the extra solve from the off state to V_t,lin, V.
+const LENGTH_SOLVE_STEP_V: f64 = 0.1;
+/// L_elec is taken where I_D at V_DS,lin is this fraction of the threshold current.
+pub const L_ELEC_CURRENT_RATIO: f64 = 1e-2;
+
+/// The electrical channel length (one extra coupled solve at V_t,lin and
+/// V_DS,lin, walked up from the off-state potential of the lin ramp), the
+/// roll-off split and the off-state current (from the sat ramp's off-state
+/// potential), put into `r`. A solve that does not converge leaves the
+/// figures null and says why in `problems`; a merged junction or an
+/// electrical length below [`L_ELEC_WARN_NM`] adds a warning.
+fn add_length_figures(
+    s: &Scenario,
+    structure: &AlongChannel,
+    lin: &GateRamp,
+    sat: &GateRamp,
+    r: &mut DeviceReport,
+) {
+    let p = &structure.problem;
+    let mu = s.extraction.mobility_nm2_per_vs;
+    if let Some(psi) = &sat.off_psi {
+        let t = crate::solve::transport::quasi_fermi(p, psi, s.polarity, sat.vds_v, mu);
+        r.ioff_a_per_um = Some(t.current_a_per_um);
+    }
+    if r.l_met_nm <= 0.0 {
+        r.warnings.push(format!(
+            "the source and drain junctions merge (L_met = 0 at L_g = {} nm): L_elec and the roll-off split describe a device without a channel region of the channel type",
+            r.gate_length_nm
+        ));
+    }
+    let Some(vt) = r.vt_lin_v else { return };
+    // L_elec two decades below the threshold current (the middle of the SS
+    // window), where the channel charge does not yet bend the potential.
+    let v: Vec<f64> = lin.points.iter().map(|q| q.vgs_v).collect();
+    let i: Vec<f64> = lin
+        .points
+        .iter()
+        .map(|q| q.current_a_per_um.map_or(f64::NAN, f64::abs))
+        .collect();
+    let curve = extract::Curve {
+        vgs_v: &v,
+        id_abs: &i,
+    };
+    let Ok(v_sub) = extract::threshold(&curve, L_ELEC_CURRENT_RATIO * threshold_current(s)) else {
+        r.problems.push(format!(
+            "electrical length: the lin sweep does not reach {L_ELEC_CURRENT_RATIO} of the threshold current"
+        ));
+        return;
+    };
+    let solved = PoissonSolver::new(p)
+        .map_err(|e| e.to_string())
+        .and_then(|solver| {
+            let mut ds = DeviceSolver::new(s, structure, solver);
+            let vds = lin.vds_v;
+            let mut psi = match &lin.off_psi {
+                Some(psi) => psi.clone(),
+                None => ds.initial_state(v_sub, vds).map_err(|e| e.to_string())?,
+            };
+            let mut walk = |psi: &mut Vec<f64>, from: f64, to: f64| -> Result<(), String> {
+                let n = ((to - from).abs() / LENGTH_SOLVE_STEP_V).ceil().max(1.0) as usize;
+                for k in 1..=n {
+                    let vg = from + (to - from) * k as f64 / n as f64;
+                    let (rep, _) = ds
+                        .solve_bias_point(psi, vg, vds)
+                        .map_err(|e| e.to_string())?;
+                    if !rep.converged() {
+                        return Err(format!("V_G = {vg:.4} V: {}", rep.reason()));
+                    }
+                }
+                Ok(())
+            };
+            walk(&mut psi, s.bias.off_vgs_v, v_sub)?;
+            let at_sub = psi.clone();
+            walk(&mut psi, v_sub, vt)?;
+            Ok((at_sub, psi))
+        });
+    let (psi, psi_vt) = match solved {
+        Ok(pair) => pair,
+        Err(e) => {
+            r.problems.push(format!(
+                "electrical length: the solve at V_DS,lin between {v_sub:.4} V and V_t,lin = {vt:.4} V did not converge ({e})"
+            ));
+            return;
+        }
+    };
+    let at_vt = extract::electrical_length::electrical_length(p, &psi_vt, s.polarity);
+    let n_top_vt = at_vt.n_top_per_nm2;
+    r.l_elec_at_vt_nm = Some(at_vt.l_elec_nm);
+    let el = extract::electrical_length::electrical_length(p, &psi, s.polarity);
+    r.l_elec_nm = Some(el.l_elec_nm);
+    if el.l_elec_nm < L_ELEC_WARN_NM {
+        r.warnings.push(format!(
+            "L_elec = {:.2} nm is below {L_ELEC_WARN_NM} nm: source and drain nearly touch; the roll-off split and the figures at L_g = {} nm are outside the model's range",
+            el.l_elec_nm, r.gate_length_nm
+        ));
+    }
+    let thermal_v = p.silicon.thermal_v;
+    let n_th = extract::electrical_length::threshold_density_per_nm2(
+        s.extraction.current_criterion_a,
+        mu,
+        thermal_v,
+        lin.vds_v.abs(),
+    );
+    if let (Some(total), Some(ss_long), Some(ss_lin)) =
+        (r.vt_rolloff_mv, r.ss_long_mv_per_dec, r.ss_lin_mv_per_dec)
+    {
+        // n-channel signs; a p-channel roll-off is mirrored (|V_t| falls).
+        let sign = s.polarity.sign();
+        let split = extract::electrical_length::split_rolloff(
+            sign * total,
+            n_top_vt,
+            n_th,
+            ss_long,
+            ss_lin,
+            el.l_elec_nm,
+            r.gate_length_nm,
+        );
+        r.vt_rolloff_electrostatic_mv = Some(sign * split.electrostatic_mv);
+        r.vt_rolloff_length_mv = Some(sign * split.length_mv);
+        r.vt_rolloff_residual_mv = Some(sign * split.residual_mv);
+    }
 }
 
 /// A fin or wire: the long-channel cross-section and the theory at this length.
@@ -309,6 +435,13 @@ fn build_report(s: &Scenario, reference: &Reference, f: Figures) -> DeviceReport
         theory_rolloff_mv: theory.map(|t| 1000.0 * t.roll_off_lin_v),
         theory_dibl_mv_per_v: theory.map(|t| t.dibl_mv_per_v),
         theory_ss_mv_per_dec: theory.map(|t| t.ss_mv_per_dec),
+        l_elec_nm: None,
+        vt_rolloff_electrostatic_mv: None,
+        vt_rolloff_length_mv: None,
+        ioff_a_per_um: None,
+        l_elec_at_vt_nm: None,
+        vt_rolloff_residual_mv: None,
+        off_vgs_v: s.bias.off_vgs_v,
         method: f.method,
         converged: f.converged,
         nodes: f.nodes,

@@ -15,7 +15,10 @@ pub mod reference;
 pub mod report;
 pub mod scan;
 
-pub use criteria::{Criteria, CriteriaVerdict};
+pub use criteria::{
+    shortest_compliant, AnswerKind, Criteria, CriteriaError, CriteriaVerdict, Criterion,
+    LengthPoint, ShortestAnswer,
+};
 pub use device::{evaluate, evaluate_alone, DeviceSolution, EvaluateError, Evaluation};
 pub use reference::{natural_length, FinSection, Reference, ReferenceError};
 pub use report::{DeviceReport, Method, Status, CAUTION};

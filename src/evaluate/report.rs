@@ -158,6 +158,28 @@ pub struct DeviceReport {
     pub theory_dibl_mv_per_v: Option<f64>,
     #[serde(rename = "theory_ss_mV_per_dec")]
     pub theory_ss_mv_per_dec: Option<f64>,
+    /// Electrical channel length N_top int dx/N at V_t,lin and V_DS,lin, nm
+    /// (`extract::electrical_length`; planar solves only).
+    pub l_elec_nm: Option<f64>,
+    /// The part of the roll-off from the barrier-top density against the long channel, mV.
+    #[serde(rename = "vt_rolloff_electrostatic_mV")]
+    pub vt_rolloff_electrostatic_mv: Option<f64>,
+    /// The electrical-length part SS_lin log10(L_elec / L_g), mV (negative when L_elec < L_g).
+    #[serde(rename = "vt_rolloff_length_mV")]
+    pub vt_rolloff_length_mv: Option<f64>,
+    /// Off-state current at V_GS = bias.off_vgs_V and V_DS,sat, A/um (signed like the curves).
+    #[serde(rename = "ioff_A_per_um")]
+    pub ioff_a_per_um: Option<f64>,
+    /// N_top int dx/N at V_t,lin itself (the channel charge there makes the
+    /// potential follow the quasi-Fermi level a little), nm.
+    pub l_elec_at_vt_nm: Option<f64>,
+    /// Roll-off minus its two parts, mV: (SS_long - SS_lin) log10(L_elec/L_g)
+    /// + SS_long log10(l_elec_at_vt / L_elec), plus the V_t interpolation error.
+    #[serde(rename = "vt_rolloff_residual_mV")]
+    pub vt_rolloff_residual_mv: Option<f64>,
+    /// The gate voltage of I_off and of the barriers (`bias.off_vgs_V`), V.
+    #[serde(rename = "off_vgs_V")]
+    pub off_vgs_v: f64,
     pub method: Method,
     pub converged: bool,
     pub nodes: usize,
@@ -214,6 +236,12 @@ pub const SCALARS: &[(&str, Scalar)] = &[
     ("theory_rolloff_mV", |r| r.theory_rolloff_mv),
     ("theory_dibl_mV_per_V", |r| r.theory_dibl_mv_per_v),
     ("theory_ss_mV_per_dec", |r| r.theory_ss_mv_per_dec),
+    ("l_elec_nm", |r| r.l_elec_nm),
+    ("vt_rolloff_electrostatic_mV", |r| {
+        r.vt_rolloff_electrostatic_mv
+    }),
+    ("vt_rolloff_length_mV", |r| r.vt_rolloff_length_mv),
+    ("ioff_A_per_um", |r| r.ioff_a_per_um),
 ];
 
 impl DeviceReport {

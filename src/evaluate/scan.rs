@@ -5,10 +5,12 @@
 use rayon::prelude::*;
 use serde::Serialize;
 
+use super::criteria::{shortest_compliant, Criteria, LengthPoint, ShortestAnswer};
 use super::device::evaluate;
 use super::reference::{Reference, ReferenceError};
 use super::report::{Method, Status, CAUTION};
 use crate::device::{Architecture, Scenario};
+use crate::extract::electrical_length::{terada_muta, TeradaMuta};
 use crate::progress::Observer;
 use crate::theory::short_channel::{fit_lambda_from_dibl, LambdaFit};
 
@@ -25,6 +27,8 @@ pub struct ScanRow {
     pub dibl_mv_per_v: Option<f64>,
     #[serde(rename = "ss_lin_mV_per_dec")]
     pub ss_lin_mv_per_dec: Option<f64>,
+    #[serde(rename = "ss_sat_mV_per_dec")]
+    pub ss_sat_mv_per_dec: Option<f64>,
     #[serde(rename = "barrier_lowering_meV")]
     pub barrier_lowering_mev: Option<f64>,
     /// Theory (Liu et al., IEEE TED 40(1), 86, 1993) with the numeric body natural length.
@@ -35,6 +39,17 @@ pub struct ScanRow {
     #[serde(rename = "theory_ss_mV_per_dec")]
     pub theory_ss_mv_per_dec: Option<f64>,
     pub lg_over_lambda: f64,
+    pub l_met_nm: f64,
+    /// Electrical channel length (planar solves), nm.
+    pub l_elec_nm: Option<f64>,
+    #[serde(rename = "vt_rolloff_electrostatic_mV")]
+    pub vt_rolloff_electrostatic_mv: Option<f64>,
+    #[serde(rename = "vt_rolloff_length_mV")]
+    pub vt_rolloff_length_mv: Option<f64>,
+    #[serde(rename = "ioff_A_per_um")]
+    pub ioff_a_per_um: Option<f64>,
+    /// Cautions on this length's figures (merged junctions, L_elec below a few nm).
+    pub warnings: Vec<String>,
     /// "ok" or why something is missing.
     pub status: Status,
 }
@@ -55,6 +70,11 @@ pub struct ScanReport {
     /// Lambda fitted to the solved barrier lowering against L.
     pub lambda_fitted_barrier: Option<LambdaFit>,
     pub lambda_fit_note: String,
+    /// Delta L = L_g - L_elec by the channel-resistance method of Terada and
+    /// Muta (Jpn. J. Appl. Phys. 18, 953, 1979) across the solved lengths, at
+    /// two gate voltages in the subthreshold window of the longest length
+    /// (planar, two or more lengths; meaningful where the lengths are long).
+    pub terada_muta: Option<TeradaMuta>,
     #[serde(rename = "vt_long_V")]
     pub vt_long_v: f64,
     #[serde(rename = "ss_long_mV_per_dec")]
@@ -63,7 +83,55 @@ pub struct ScanReport {
     #[serde(rename = "theory_barrier_V")]
     pub theory_barrier_v: f64,
     pub rows: Vec<ScanRow>,
+    /// The criteria judged by [`ScanReport::judge`] (null: none given).
+    pub criteria: Option<CriteriaSet>,
+    /// The shortest compliant length interpolated between the solved lengths (null: no criteria).
+    pub shortest: Option<ShortestAnswer>,
     pub caution: String,
+}
+
+/// The criteria of a scan as written in its JSON.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct CriteriaSet {
+    #[serde(rename = "dibl_max_mV_per_V")]
+    pub dibl_max_mv_per_v: Option<f64>,
+    #[serde(rename = "ss_max_mV_per_dec")]
+    pub ss_max_mv_per_dec: Option<f64>,
+    #[serde(rename = "vt_rolloff_max_mV")]
+    pub vt_rolloff_max_mv: Option<f64>,
+}
+
+impl ScanReport {
+    /// Judges the rows against `criteria` and stores the shortest compliant
+    /// length ([`shortest_compliant`]); no criteria clears it.
+    pub fn judge(&mut self, criteria: &Criteria) {
+        if criteria.is_empty() {
+            self.criteria = None;
+            self.shortest = None;
+            return;
+        }
+        // Fins and wires are judged on their theory figures (the method says so).
+        let theory = self.method == Method::Theory;
+        let pick = |solved: Option<f64>, th: Option<f64>| if theory { th } else { solved };
+        let points: Vec<LengthPoint> = self
+            .rows
+            .iter()
+            .map(|r| LengthPoint {
+                gate_length_nm: r.gate_length_nm,
+                dibl_mv_per_v: pick(r.dibl_mv_per_v, r.theory_dibl_mv_per_v),
+                ss_lin_mv_per_dec: pick(r.ss_lin_mv_per_dec, r.theory_ss_mv_per_dec),
+                ss_sat_mv_per_dec: pick(r.ss_sat_mv_per_dec, r.theory_ss_mv_per_dec),
+                vt_rolloff_mv: pick(r.vt_rolloff_mv, r.theory_rolloff_mv),
+                ok: r.status.is_ok(),
+            })
+            .collect();
+        self.criteria = Some(CriteriaSet {
+            dibl_max_mv_per_v: criteria.dibl_max_mv_per_v,
+            ss_max_mv_per_dec: criteria.ss_max_mv_per_dec,
+            vt_rolloff_max_mv: criteria.vt_rolloff_max_mv,
+        });
+        self.shortest = Some(shortest_compliant(&points, criteria));
+    }
 }
 
 /// Why a scan could not run at all (single lengths that fail are rows with a status).
@@ -77,6 +145,33 @@ pub enum ScanError {
     Reference(#[from] ReferenceError),
     #[error("the natural length or long-channel reference failed: {0}")]
     Theory(String),
+}
+
+/// Terada-Muta across the solved lengths' V_DS,lin curves (L_g nm, gate
+/// voltages, currents, threshold current A/um): the two gate voltages are the
+/// lowest and highest grid points of the longest length's SS window (1e-3 to
+/// 1e-1 of its threshold current).
+fn terada_muta_of(
+    curves: &[(f64, Vec<f64>, Vec<Option<f64>>, f64)],
+    vds_v: f64,
+) -> Option<TeradaMuta> {
+    let longest = curves.iter().max_by(|a, b| a.0.total_cmp(&b.0))?;
+    let (_, v, i, target) = longest;
+    let window: Vec<f64> = v
+        .iter()
+        .zip(i)
+        .filter(|(_, c)| c.is_some_and(|c| c.abs() >= 1e-3 * target && c.abs() <= 1e-1 * target))
+        .map(|(vg, _)| *vg)
+        .collect();
+    let (lo, hi) = (*window.first()?, *window.last()?);
+    if lo == hi {
+        return None;
+    }
+    let refs: Vec<(f64, &[f64], &[Option<f64>])> = curves
+        .iter()
+        .map(|(l, v, i, _)| (*l, v.as_slice(), i.as_slice()))
+        .collect();
+    terada_muta(&refs, vds_v, (lo, hi))
 }
 
 /// Solves (planar) or predicts (fins and wires) each gate length, in parallel.
@@ -99,7 +194,8 @@ pub fn scan(
         .map_err(|e| ScanError::Theory(e.to_string()))?;
     let inputs = reference.theory.clone().map_err(ScanError::Theory)?;
     let lambda = lam.lambda_numeric_nm;
-    let rows: Vec<ScanRow> = scenarios
+    type Curve = (f64, Vec<f64>, Vec<Option<f64>>, f64);
+    let solved: Vec<(ScanRow, Option<Curve>)> = scenarios
         .par_iter()
         .map(|sc| {
             let l = sc.geometry.gate_length_nm;
@@ -114,13 +210,21 @@ pub fn scan(
                 vt_rolloff_mv: None,
                 dibl_mv_per_v: None,
                 ss_lin_mv_per_dec: None,
+                ss_sat_mv_per_dec: None,
                 barrier_lowering_mev: None,
                 theory_rolloff_mv: th.as_ref().map(|t| 1000.0 * t.roll_off_lin_v),
                 theory_dibl_mv_per_v: th.as_ref().map(|t| t.dibl_mv_per_v),
                 theory_ss_mv_per_dec: th.as_ref().map(|t| t.ss_mv_per_dec),
                 lg_over_lambda: l / lambda,
+                l_met_nm: f64::NAN,
+                l_elec_nm: None,
+                vt_rolloff_electrostatic_mv: None,
+                vt_rolloff_length_mv: None,
+                ioff_a_per_um: None,
+                warnings: Vec::new(),
                 status: Status::Ok,
             };
+            let mut curve = None;
             if sc.architecture.is_planar() {
                 match evaluate(sc, &reference, observer) {
                     Ok(ev) => {
@@ -129,16 +233,32 @@ pub fn scan(
                         row.vt_rolloff_mv = r.vt_rolloff_mv;
                         row.dibl_mv_per_v = r.dibl_mv_per_v;
                         row.ss_lin_mv_per_dec = r.ss_lin_mv_per_dec;
+                        row.ss_sat_mv_per_dec = r.ss_sat_mv_per_dec;
                         row.barrier_lowering_mev = r.barrier_lowering_mev;
+                        row.l_met_nm = r.l_met_nm;
+                        row.l_elec_nm = r.l_elec_nm;
+                        row.vt_rolloff_electrostatic_mv = r.vt_rolloff_electrostatic_mv;
+                        row.vt_rolloff_length_mv = r.vt_rolloff_length_mv;
+                        row.ioff_a_per_um = r.ioff_a_per_um;
+                        row.warnings = r
+                            .warnings
+                            .iter()
+                            .filter(|w| w.contains("L_elec") || w.contains("junctions merge"))
+                            .cloned()
+                            .collect();
+                        curve = Some((l, r.vgs_v, r.id_lin, r.threshold_current_a_per_um));
                         problems.extend(r.problems);
                     }
                     Err(e) => problems.push(format!("solve: {e}")),
                 }
             }
             row.status = Status::from_problems(&problems);
-            row
+            (row, curve)
         })
         .collect();
+    let curves: Vec<Curve> = solved.iter().filter_map(|(_, c)| c.clone()).collect();
+    let rows: Vec<ScanRow> = solved.into_iter().map(|(r, _)| r).collect();
+    let terada_muta = terada_muta_of(&curves, s.bias.vds_lin_v);
     let fit = |pick: &dyn Fn(&ScanRow) -> Option<f64>| {
         let pts: Vec<(f64, f64)> = rows
             .iter()
@@ -165,6 +285,7 @@ pub fn scan(
         lambda_closed_forms: lam.lambda_closed_forms,
         lambda_fitted,
         lambda_fitted_barrier,
+        terada_muta,
         lambda_fit_note: "least-squares lines of ln(DIBL) and of ln(barrier lowering) against L over the solved \
                           lengths; lambda = -1/(2 slope) (leading exp(-L/(2 lambda)) term of Liu et al. 1993). \
                           Constant-current DIBL also holds a slowly decaying part (the drain shortens the \
@@ -175,6 +296,8 @@ pub fn scan(
         ss_long_mv_per_dec: inputs.ss_long_mv_per_dec,
         theory_barrier_v: inputs.barrier_v,
         rows,
+        criteria: None,
+        shortest: None,
         caution: CAUTION.into(),
     })
 }

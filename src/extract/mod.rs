@@ -4,10 +4,12 @@
 //! |---|---|---|
 //! | V_t (constant current), SS, DIBL from I_D-V_G curves | [`curve`] | [`curve::threshold`], [`curve::swing`], [`curve::ramp_figures`] |
 //! | the leakiest path's barrier | [`barrier`] | [`barrier::barrier`] |
+//! | electrical channel length, roll-off split | [`electrical_length`] | [`electrical_length::electrical_length`], [`electrical_length::split_rolloff`] |
 //! | long-channel V_t and SS (Pao-Sah), bulk depletion depth | [`long_channel`] | [`long_channel::extract_long_channel`] |
 
 pub mod barrier;
 pub mod curve;
+pub mod electrical_length;
 pub mod long_channel;
 
 pub use barrier::{band_edge_ev, barrier, Barrier};

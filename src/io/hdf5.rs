@@ -16,6 +16,7 @@ use hdf5_pure::{AttrValue, File, FileBuilder, MaxExtent};
 use crate::device::Polarity;
 use crate::evaluate::{CriteriaVerdict, Status};
 
+use super::shortest::ShortestTable;
 use super::{
     ascii_fit, units_of, AxisColumn, AxisValue, CurveData, IoError, MapData, PointRow, SweepFile,
     SweepMeta,
@@ -59,6 +60,11 @@ enum Col<'a> {
 
 /// Builds the file's bytes.
 pub fn to_bytes(f: &SweepFile) -> Result<Vec<u8>, String> {
+    to_bytes_with(f, None)
+}
+
+/// Builds the file's bytes, with the `shortest` group when given.
+pub fn to_bytes_with(f: &SweepFile, shortest: Option<&ShortestTable>) -> Result<Vec<u8>, String> {
     let m = &f.meta;
     let mut fb = FileBuilder::new();
     fb.set_attr("format", vs(FORMAT));
@@ -339,6 +345,9 @@ pub fn to_bytes(f: &SweepFile) -> Result<Vec<u8>, String> {
         }
     }
     fb.add_group(g.finish());
+    if let Some(t) = shortest {
+        super::shortest::add_group(&mut fb, t)?;
+    }
     fb.finish().map_err(|e| e.to_string())
 }
 
@@ -417,7 +426,16 @@ pub static WRITING: std::sync::Mutex<()> = std::sync::Mutex::new(());
 
 /// Writes `f` to `path` atomically (temporary file, fsync, rename).
 pub fn write_sweep(path: &Path, f: &SweepFile) -> Result<(), IoError> {
-    let bytes = to_bytes(f).map_err(|e| h5err(path, "/", e))?;
+    write_sweep_with(path, f, None)
+}
+
+/// [`write_sweep`] with the `shortest` group when given (a complete file with criteria).
+pub fn write_sweep_with(
+    path: &Path,
+    f: &SweepFile,
+    shortest: Option<&ShortestTable>,
+) -> Result<(), IoError> {
+    let bytes = to_bytes_with(f, shortest).map_err(|e| h5err(path, "/", e))?;
     let _writing = WRITING.lock().unwrap_or_else(|e| e.into_inner());
     let tmp = tmp_path(path);
     let fe = |e: std::io::Error| IoError::File {

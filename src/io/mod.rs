@@ -6,6 +6,7 @@
 
 pub mod csv;
 pub mod hdf5;
+pub mod shortest;
 
 use crate::device::Polarity;
 use crate::discretize::CellKind;

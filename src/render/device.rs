@@ -26,6 +26,12 @@ pub fn device_text(r: &DeviceReport) -> String {
         format!("{:.2}", r.l_met_nm),
         "nm",
     );
+    line(
+        &mut o,
+        "electrical channel length L_elec",
+        fmt(r.l_elec_nm, 2),
+        "nm (N_top int dx/N at V_t,lin, V_DS,lin)",
+    );
     line(&mut o, "EOT", format!("{:.3}", r.eot_nm), "nm");
     line(
         &mut o,
@@ -53,6 +59,18 @@ pub fn device_text(r: &DeviceReport) -> String {
     );
     line(
         &mut o,
+        "  electrostatic part (barrier top vs long)",
+        fmt(r.vt_rolloff_electrostatic_mv, 1),
+        "mV",
+    );
+    line(
+        &mut o,
+        "  electrical-length part SS log10(L_elec/L_g)",
+        fmt(r.vt_rolloff_length_mv, 1),
+        "mV",
+    );
+    line(
+        &mut o,
         "SS at V_DS,lin",
         fmt(r.ss_lin_mv_per_dec, 1),
         "mV/dec",
@@ -75,6 +93,15 @@ pub fn device_text(r: &DeviceReport) -> String {
         "  of which long-channel floor",
         fmt(r.dibl_long_floor_mv_per_v, 1),
         "mV/V (not subtracted)",
+    );
+    line(
+        &mut o,
+        &format!(
+            "I_off at V_GS = {} V, V_DS = {} V",
+            r.off_vgs_v, r.vds_sat_v
+        ),
+        r.ioff_a_per_um.map_or("n/a".into(), |x| format!("{x:.3e}")),
+        "A/um",
     );
     line(
         &mut o,

@@ -13,6 +13,7 @@ pub mod device;
 pub mod keys;
 pub mod lambda;
 pub mod scan;
+pub mod shortest;
 pub mod summary;
 
 /// A value with `digits` decimals, or "n/a".

@@ -51,6 +51,53 @@ pub fn render_text(r: &ScanReport) -> String {
             row.status
         ));
     }
+    if r.rows.iter().any(|row| row.l_elec_nm.is_some()) {
+        o.push_str("\n   L_g nm  L_met nm  L_elec nm | roll-off mV = electrostatic + length (+ rest) | I_off A/um\n");
+        for row in &r.rows {
+            let rest = row
+                .vt_rolloff_mv
+                .zip(row.vt_rolloff_electrostatic_mv)
+                .zip(row.vt_rolloff_length_mv)
+                .map(|((t, e), l)| t - e - l);
+            o.push_str(&format!(
+                "  {:7.1}  {:8.2}  {:>9} | {:>11} = {:>13} + {:>6} ({:>5}) | {:>10}\n",
+                row.gate_length_nm,
+                row.l_met_nm,
+                f(row.l_elec_nm, 2),
+                f(row.vt_rolloff_mv, 1),
+                f(row.vt_rolloff_electrostatic_mv, 1),
+                f(row.vt_rolloff_length_mv, 1),
+                f(rest, 1),
+                row.ioff_a_per_um
+                    .map_or("n/a".into(), |x| format!("{x:.3e}")),
+            ));
+            for w in &row.warnings {
+                o.push_str(&format!("      warning: {w}\n"));
+            }
+        }
+        if let Some(t) = &r.terada_muta {
+            o.push_str(&format!(
+                "  Terada-Muta (channel resistance across the {} lengths at V_G = {:.3} and {:.3} V): \
+                 L_g - L_elec = {:.2} nm, R_sd {:.3e} Ohm um\n",
+                t.lengths, t.vgs_v.0, t.vgs_v.1, t.delta_l_nm, t.r_sd_ohm_um
+            ));
+        }
+    }
+    if let (Some(c), Some(a)) = (&r.criteria, &r.shortest) {
+        let crit = crate::evaluate::Criteria {
+            dibl_max_mv_per_v: c.dibl_max_mv_per_v,
+            ss_max_mv_per_dec: c.ss_max_mv_per_dec,
+            vt_rolloff_max_mv: c.vt_rolloff_max_mv,
+        };
+        o.push('\n');
+        o.push_str(&super::shortest::heading(&crit));
+        o.push_str("  ");
+        o.push_str(&super::shortest::answer_line(
+            &r.name,
+            a,
+            Some(r.lambda_numeric_nm),
+        ));
+    }
     o.push_str(&format!("\nTheory: Liu et al., IEEE TED 40(1), 86, 1993, with the numeric natural length.\nCaution: {}\n", r.caution));
     o
 }

@@ -100,6 +100,15 @@ pub fn demo_text(r: &DemoSummary) -> String {
         criteria_text(&r.criteria),
     );
     t.push_str(&shortest_text(&r.series, (lo, hi)));
+    t.push_str("\nInterpolated between solved lengths (DIBL and |roll-off| log-linear in L_g, SS linear):\n");
+    for (o, _) in &r.series {
+        t.push_str("  ");
+        t.push_str(&super::shortest::answer_line(
+            &o.label,
+            &o.answer,
+            o.lambda_numeric_nm,
+        ));
+    }
     t.push_str(
         "\nmethod: 2d-solve = along-channel 2D nonlinear Poisson solve at each length; theory = the\n\
          long-channel cross-section solve with the Liu et al. (IEEE TED 40(1), 86, 1993) model from the\n\

@@ -28,7 +28,7 @@ pub fn column_densities(p: &Problem, psi: &[f64], polarity: Polarity) -> Vec<f64
 }
 
 /// int dx / N over each cell, exact for N log-linear between nodes, nm^3.
-fn segment_resistances(p: &Problem, dens: &[f64]) -> Vec<f64> {
+pub fn segment_resistances(p: &Problem, dens: &[f64]) -> Vec<f64> {
     let xs = &p.x.nodes;
     (0..p.nx - 1)
         .map(|i| {

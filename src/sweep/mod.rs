@@ -32,7 +32,7 @@ use std::time::{Instant, SystemTime};
 use rayon::prelude::*;
 
 use crate::evaluate::{evaluate, DeviceReport, Reference, Status, CAUTION};
-use crate::io::hdf5::{read_sweep, write_sweep};
+use crate::io::hdf5::{read_sweep, write_sweep, write_sweep_with};
 use crate::io::{rfc3339, AxisColumn, CurveData, IoError, MapData, PointRow, SweepFile, SweepMeta};
 use crate::progress::Silent;
 
@@ -493,7 +493,8 @@ pub fn run_sweep(
     let complete = file.is_complete();
     if complete {
         file.meta.finished = rfc3339(SystemTime::now());
-        write_sweep(out, &file)?;
+        let answer = shortest::stored_answer(&file, &plan.criteria);
+        write_sweep_with(out, &file, answer.as_ref())?;
     }
     Ok(SweepSummary {
         in_shard,
@@ -619,7 +620,9 @@ pub fn merge(parts: &[&Path], out: &Path, command_line: &str) -> Result<SweepFil
         figures: first.figures.clone(),
         rows,
     };
-    write_sweep(out, &merged)?;
+    let criteria = plan::criteria_of_text(&merged.meta.plan).unwrap_or_default();
+    let answer = shortest::stored_answer(&merged, &criteria);
+    write_sweep_with(out, &merged, answer.as_ref())?;
     Ok(merged)
 }
 

@@ -359,6 +359,14 @@ pub fn parse_plan_with(text: &str, read_base: &BaseReader<'_>) -> Result<Plan, P
     })
 }
 
+/// The `[criteria]` of a plan's text (as stored in a sweep file's `plan` attribute).
+pub fn criteria_of_text(text: &str) -> Result<Criteria, PlanError> {
+    let root: toml::Table = text
+        .parse()
+        .map_err(|e: toml::de::Error| PlanError::Syntax(e.to_string()))?;
+    parse_criteria(&root)
+}
+
 fn parse_criteria(root: &toml::Table) -> Result<Criteria, PlanError> {
     let mut c = Criteria::default();
     let Some(v) = root.get("criteria") else {

@@ -1,9 +1,14 @@
 //! The engineer's answer read from a sweep file: for each series (every
 //! combination of the axes other than the gate length), the shortest swept
-//! gate length whose figures meet the criteria. Reads the file's figures,
+//! gate length whose figures meet the criteria, and the shortest compliant
+//! length interpolated between solved lengths
+//! ([`crate::evaluate::shortest_compliant`]). Reads the file's figures,
 //! nothing else.
 
-use crate::evaluate::{Criteria, CriteriaVerdict};
+use crate::evaluate::{
+    shortest_compliant, Criteria, CriteriaVerdict, Criterion, LengthPoint, ShortestAnswer,
+};
+use crate::io::shortest::{ShortestRow, ShortestTable};
 use crate::io::{series_labels, SweepFile};
 
 /// The shortest compliant length of one series, with the figures there.
@@ -30,6 +35,8 @@ pub struct SeriesOutcome {
     pub shortest: Option<Compliant>,
     /// Points of the series whose status is not "ok".
     pub failed_points: usize,
+    /// The shortest compliant length interpolated between solved lengths.
+    pub answer: ShortestAnswer,
 }
 
 /// The outcome of every series of `f` against `criteria`, in order of first appearance.
@@ -59,6 +66,7 @@ pub fn per_series(f: &SweepFile, criteria: &Criteria) -> Vec<SeriesOutcome> {
                     lambda_numeric_nm: None,
                     shortest: None,
                     failed_points: 0,
+                    answer: shortest_compliant(&[], criteria),
                 });
                 out.len() - 1
             }
@@ -87,5 +95,65 @@ pub fn per_series(f: &SweepFile, criteria: &Criteria) -> Vec<SeriesOutcome> {
             });
         }
     }
+    for o in &mut out {
+        let points: Vec<LengthPoint> = o
+            .rows
+            .iter()
+            .map(|&k| LengthPoint {
+                gate_length_nm: lg[k],
+                dibl_mv_per_v: finite(dibl[k]),
+                ss_lin_mv_per_dec: finite(ss_lin[k]),
+                ss_sat_mv_per_dec: finite(ss_sat[k]),
+                vt_rolloff_mv: finite(roll[k]),
+                ok: f.rows[k].status.is_ok(),
+            })
+            .collect();
+        o.answer = shortest_compliant(&points, criteria);
+    }
     out
+}
+
+/// The per-series answers as the table stored in the file's `shortest` group.
+pub fn table(outcomes: &[SeriesOutcome], criteria: &Criteria) -> ShortestTable {
+    let rows = outcomes
+        .iter()
+        .map(|o| {
+            let a = &o.answer;
+            ShortestRow {
+                series: o.label.clone(),
+                gate_length_nm: a.gate_length_nm,
+                kind: a.kind.name().into(),
+                limiting_criterion: a.limiting_criterion.map_or("none", |c| c.name()).into(),
+                lambda_numeric_nm: o.lambda_numeric_nm,
+                lg_over_lambda: a
+                    .gate_length_nm
+                    .zip(o.lambda_numeric_nm)
+                    .map(|(l, m)| l / m),
+                bracket_short_nm: a.bracket_nm.map(|b| b.0),
+                bracket_long_nm: a.bracket_nm.map(|b| b.1),
+                swept_shortest_nm: a.swept_shortest_nm,
+                dibl_mv_per_v: a.dibl_mv_per_v,
+                ss_mv_per_dec: a.ss_mv_per_dec,
+                vt_rolloff_abs_mv: a.vt_rolloff_abs_mv,
+                failed_points: o.failed_points,
+                notes: a.notes.join("; "),
+            }
+        })
+        .collect();
+    ShortestTable {
+        dibl_max_mv_per_v: criteria.dibl_max_mv_per_v,
+        ss_max_mv_per_dec: criteria.ss_max_mv_per_dec,
+        vt_rolloff_max_mv: criteria.vt_rolloff_max_mv,
+        interpolation: Criterion::ALL
+            .iter()
+            .map(|c| format!("{}: {}", c.name(), c.interpolation()))
+            .collect::<Vec<_>>()
+            .join("; "),
+        rows,
+    }
+}
+
+/// The `shortest` group of a complete file judged by `criteria` (None without criteria).
+pub fn stored_answer(f: &SweepFile, criteria: &Criteria) -> Option<ShortestTable> {
+    (!criteria.is_empty()).then(|| table(&per_series(f, criteria), criteria))
 }
