@@ -8,7 +8,9 @@
 //! | the report type and its enums | [`report`] | [`DeviceReport`], [`Status`], [`Method`] |
 //! | screening criteria and their verdict | [`criteria`] | [`Criteria::judge`] |
 //! | gate-length scans | [`scan`] | [`scan::scan`] |
+//! | capacitances, on-current and delay estimates | [`capacitance`] | [`capacitance::device_capacitance`] |
 
+pub mod capacitance;
 pub mod criteria;
 pub mod device;
 pub mod reference;

@@ -158,6 +158,14 @@ pub struct DeviceReport {
     pub theory_dibl_mv_per_v: Option<f64>,
     #[serde(rename = "theory_ss_mV_per_dec")]
     pub theory_ss_mv_per_dec: Option<f64>,
+    /// Gate capacitances per um of width, off and on, at V_DS = 0 (planar
+    /// devices; see [`crate::evaluate::capacitance`]).
+    pub capacitance: Option<crate::evaluate::capacitance::CapacitanceFigures>,
+    /// Screening estimate of the on-current (virtual-source form), A/um.
+    #[serde(rename = "ion_A_per_um")]
+    pub ion_a_per_um: Option<f64>,
+    /// Screening estimate of the delay (C_gg + 2 C_gc) V_DD / I_on, ps.
+    pub tau_ps: Option<f64>,
     pub method: Method,
     pub converged: bool,
     pub nodes: usize,
@@ -214,6 +222,32 @@ pub const SCALARS: &[(&str, Scalar)] = &[
     ("theory_rolloff_mV", |r| r.theory_rolloff_mv),
     ("theory_dibl_mV_per_V", |r| r.theory_dibl_mv_per_v),
     ("theory_ss_mV_per_dec", |r| r.theory_ss_mv_per_dec),
+    ("c_gg_off_F_per_um", |r| {
+        r.capacitance.as_ref().map(|c| c.off.gate_total)
+    }),
+    ("c_gc_off_F_per_um", |r| {
+        r.capacitance.as_ref().map(|c| c.off.gate_contact)
+    }),
+    ("c_gsd_off_F_per_um", |r| {
+        r.capacitance.as_ref().map(|c| c.off.gate_source_drain)
+    }),
+    ("c_gch_off_F_per_um", |r| {
+        r.capacitance.as_ref().map(|c| c.off.gate_channel)
+    }),
+    ("c_gg_on_F_per_um", |r| {
+        r.capacitance.as_ref().map(|c| c.on.gate_total)
+    }),
+    ("c_gc_on_F_per_um", |r| {
+        r.capacitance.as_ref().map(|c| c.on.gate_contact)
+    }),
+    ("c_gsd_on_F_per_um", |r| {
+        r.capacitance.as_ref().map(|c| c.on.gate_source_drain)
+    }),
+    ("c_gch_on_F_per_um", |r| {
+        r.capacitance.as_ref().map(|c| c.on.gate_channel)
+    }),
+    ("ion_A_per_um", |r| r.ion_a_per_um),
+    ("tau_ps", |r| r.tau_ps),
 ];
 
 impl DeviceReport {
