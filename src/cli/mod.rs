@@ -4,6 +4,7 @@
 pub mod demo;
 pub mod device;
 pub mod exit;
+pub mod pitch;
 pub mod progress;
 pub mod sweep;
 
@@ -73,6 +74,8 @@ enum Command {
     Plot(sweep::PlotArgs),
     /// Built-in demonstration: an invented node built four ways, swept over gate length, with plots.
     Demo(demo::DemoArgs),
+    /// Split a contacted gate pitch into gate, spacers and contact: every split solved, the best compliant one.
+    Pitch(pitch::PitchArgs),
     /// Print a commented device file to start from.
     Template {
         /// bulk | thin-body | double-gate | tri-gate | gate-all-around | capped-fin
@@ -115,6 +118,7 @@ pub fn run(cli: Cli) -> anyhow::Result<Exit> {
         Command::Merge(a) => sweep::merge(&a),
         Command::Plot(a) => sweep::plot(&a),
         Command::Demo(a) => demo::demo(&a),
+        Command::Pitch(a) => pitch::pitch(&a),
         Command::Template { architecture } => device::template(&architecture),
     }
 }

@@ -645,3 +645,5 @@ pub fn sweep_plots(f: &SweepFile, dir: &Path) -> Result<Vec<PathBuf>, PlotError>
     }
     Ok(files)
 }
+
+pub mod pitch;

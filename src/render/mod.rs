@@ -6,10 +6,12 @@
 //! | one device (`run`), its curves as CSV | [`device`] | [`device::device_text`], [`device::curves_csv`] |
 //! | a gate-length scan | [`scan`] | [`scan::render_text`] |
 //! | a natural-length report | [`lambda`] | [`lambda::render_text`] |
+//! | a contacted-gate-pitch study (`pitch`) | [`pitch`] | [`pitch::pitch_text`], [`pitch::pitch_json`] |
 //! | the demo's summary, shortest compliant lengths of a sweep | [`summary`] | [`summary::demo_text`], [`summary::shortest_text`] |
 
 pub mod device;
 pub mod lambda;
+pub mod pitch;
 pub mod scan;
 pub mod summary;
 
