@@ -120,6 +120,19 @@ pub fn charge_response(
     qf: &QuasiFermi,
     raised: &[bool],
 ) -> Result<Vec<f64>, SolveError> {
+    let dpsi = potential_response(p, solver, psi, qf, raised)?;
+    Ok(p.node_charges_c_per_um(&dpsi))
+}
+
+/// dpsi_k/dV of every node (V/V) when the Dirichlet nodes marked in
+/// `raised` rise by 1 V, linearised at `psi` with quasi-Fermi levels `qf`.
+pub fn potential_response(
+    p: &Problem,
+    solver: &mut PoissonSolver,
+    psi: &[f64],
+    qf: &QuasiFermi,
+    raised: &[bool],
+) -> Result<Vec<f64>, SolveError> {
     let e: Vec<f64> = raised.iter().map(|&r| if r { 1.0 } else { 0.0 }).collect();
     let mut b: Vec<f64> = solver
         .unknown_nodes()
@@ -131,7 +144,7 @@ pub fn charge_response(
     for (&k, v) in solver.unknown_nodes().iter().zip(&b) {
         dpsi[k] = *v;
     }
-    Ok(p.node_charges_c_per_um(&dpsi))
+    Ok(dpsi)
 }
 
 /// The Maxwell matrix M_ij = dQ_i/dV_j (F/um) of `terminals` terminals,

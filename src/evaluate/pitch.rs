@@ -345,6 +345,8 @@ mod tests {
         let lg: Vec<f64> = ok.iter().map(|s| s.gate_length_nm).collect();
         assert_eq!(lg, vec![20.0, 14.0, 6.0]);
         assert_eq!(skipped.len(), 1);
-        assert!(skipped[0].1.contains("-0.000") || skipped[0].0.gate_length_nm <= 0.0);
+        // 40 - 2 x 12 - 16 = 0: not positive, skipped with the reason.
+        assert_eq!(skipped[0].0.gate_length_nm, 0.0);
+        assert!(skipped[0].1.contains("fill the 40 nm pitch"));
     }
 }
