@@ -10,8 +10,9 @@ use clap::Args;
 use super::exit::Exit;
 use super::progress::Dots;
 use gatehold::device::{parse_table, read_input_file, scenario_from_table, DeviceError};
-use gatehold::evaluate::pitch::{run_pitch, PitchSpec};
-use gatehold::evaluate::Criteria;
+use gatehold::evaluate::pitch::{run_pitch, split_table, PitchSpec, PitchStudy, Split};
+use gatehold::evaluate::{evaluate_alone, Criteria};
+use gatehold::progress::Silent;
 use gatehold::render::pitch::{pitch_json, pitch_text};
 
 /// Default screening targets (common practice, not standards; the demo's defaults).
@@ -114,11 +115,61 @@ pub fn pitch(a: &PitchArgs) -> Result<Exit> {
         print!("{}", pitch_text(&study));
     }
     if let Some(dir) = &a.plots {
-        for p in gatehold::plot::pitch::pitch_plots(&study, dir)? {
+        for p in plots(&base, &study, dir)? {
             eprintln!("wrote {}", p.display());
         }
     }
     Ok(Exit::missing_if(
         study.rows.iter().any(|r| r.status != "ok"),
     ))
+}
+
+/// The study's figures, and the potential map of the best split with its
+/// plugs (that split solved once more, for its fields).
+fn plots(base: &toml::Table, study: &PitchStudy, dir: &Path) -> Result<Vec<PathBuf>> {
+    let mut out = gatehold::plot::pitch::pitch_plots(study, dir)?;
+    if let Some(i) = study.best_index {
+        let r = &study.rows[i];
+        let split = Split {
+            gate_length_nm: r.gate_length_nm,
+            spacer_thickness_nm: r.spacer_thickness_nm,
+            spacer: r.spacer.clone(),
+            contact_width_nm: r.contact_width_nm,
+        };
+        let s = scenario_from_table(&split_table(base, study.pitch_nm, &split))?;
+        if let Some(sol) = evaluate_alone(&s, &Silent)?.solution {
+            out.extend(gatehold::plot::pitch::plug_map(
+                &sol,
+                dir,
+                "pitch_best_map",
+            )?);
+        }
+    }
+    Ok(out)
+}
+
+/// The demo's pitch study (data: [`gatehold::demo::pitch`]) into `out`:
+/// `pitch.txt` and the pitch figures. Returns the table and whether a
+/// figure is missing.
+pub fn demo_part(
+    out: &Path,
+    jobs: usize,
+    dibl_max: Option<f64>,
+    ss_max: Option<f64>,
+) -> Result<(String, bool)> {
+    let base = gatehold::demo::pitch::base_table();
+    let criteria = Criteria {
+        dibl_max_mv_per_v: Some(dibl_max.unwrap_or(DIBL_MAX_MV_PER_V)),
+        ss_max_mv_per_dec: Some(ss_max.unwrap_or(SS_MAX_MV_PER_DEC)),
+        vt_rolloff_max_mv: None,
+    };
+    let pool = rayon::ThreadPoolBuilder::new().num_threads(jobs).build()?;
+    let study = pool
+        .install(|| run_pitch(&base, &gatehold::demo::pitch::spec(), &criteria, &Silent))
+        .context("demo pitch study")?;
+    let text = pitch_text(&study);
+    let file = out.join(gatehold::demo::pitch::PITCH_FILE);
+    std::fs::write(&file, &text).with_context(|| format!("writing {}", file.display()))?;
+    plots(&base, &study, out).context("demo pitch plots")?;
+    Ok((text, study.rows.iter().any(|r| r.status != "ok")))
 }

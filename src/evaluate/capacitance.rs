@@ -273,14 +273,14 @@ mod tests {
 
     #[test]
     fn on_current_units() {
-        // 1e-15 F/um over 0.02 um = 5e-14 F/um^2 (5 uF/cm^2 ... in F/um^2);
-        // overdrive 0.5 V, v = 1e7 cm/s = 1e11 um/s: 5e-14 * 0.5 * 1e11 = 2.5e-3 A/um
-        // (hand calculation of the virtual-source form).
-        let i = on_current_a_per_um(1e-15, 20.0, 0.8, 0.3, 1e16).unwrap();
+        // 1e-15 F/um over 0.02 um = 5e-14 F/um^2 (5 uF/cm^2); overdrive
+        // 0.5 V; v = 1e7 cm/s = 1e14 nm/s = 1e11 um/s:
+        // 5e-14 * 0.5 * 1e11 = 2.5e-3 A/um (hand calculation of the virtual-source form).
+        let i = on_current_a_per_um(1e-15, 20.0, 0.8, 0.3, 1e14).unwrap();
         assert!((i - 2.5e-3).abs() < 1e-15, "{i}");
         // p-channel: V_DD = -0.8, V_t = -0.3 gives the same magnitude.
-        let ip = on_current_a_per_um(1e-15, 20.0, -0.8, -0.3, 1e16).unwrap();
+        let ip = on_current_a_per_um(1e-15, 20.0, -0.8, -0.3, 1e14).unwrap();
         assert!((ip - i).abs() < 1e-15);
-        assert!(on_current_a_per_um(1e-15, 20.0, 0.8, 0.9, 1e16).is_none());
+        assert!(on_current_a_per_um(1e-15, 20.0, 0.8, 0.9, 1e14).is_none());
     }
 }
