@@ -176,19 +176,18 @@ fn matrix_is_reciprocal_and_rows_sum_to_zero() {
     // (Jackson, Classical Electrodynamics, 3rd ed., section 1.13).
     let p = gate_spacer_plug(0.1, 0.5);
     let m = matrix_of(&p, 3);
-    for i in 0..3 {
-        for j in 0..3 {
+    for (i, row) in m.iter().enumerate() {
+        for (j, v) in row.iter().enumerate() {
             if i != j {
                 assert!(
-                    rel(m[i][j], m[j][i]) < 1e-6,
-                    "C_{i}{j} = {} vs C_{j}{i} = {}",
-                    m[i][j],
+                    rel(*v, m[j][i]) < 1e-6,
+                    "C_{i}{j} = {v} vs C_{j}{i} = {}",
                     m[j][i]
                 );
             }
         }
-        let row: f64 = m[i].iter().sum();
-        assert!(row.abs() < 1e-9 * m[i][i], "row {i} sums to {row}");
+        let sum: f64 = row.iter().sum();
+        assert!(sum.abs() < 1e-9 * row[i], "row {i} sums to {sum}");
     }
     // ... and on the semiconductor device in the on state: among the gate
     // and the two plugs, the linearised system is symmetric too.
@@ -502,4 +501,39 @@ fn pitch_command_reports_rows_and_the_best_split() {
     assert!(r["ion_A_per_um"].as_f64().unwrap() > 0.0);
     assert!(r["tau_ps"].as_f64().unwrap() > 0.0);
     std::fs::remove_dir_all(&dir).ok();
+}
+
+#[test]
+fn pitch_keys_are_sweep_axes_and_capacitances_go_into_the_file() {
+    // The sweep file contract (docs/hdf5-schema.md): every scalar of
+    // `run --json` is a column, and any device key is an axis. Gauss's law
+    // again: the column C_gc falls as the spacer axis grows.
+    let dir = tempfile::tempdir().unwrap();
+    std::fs::write(
+        dir.path().join("d.toml"),
+        pitch_device("contact_width_nm = 14\nspacer_thickness_nm = 6"),
+    )
+    .unwrap();
+    let plan = gatehold::sweep::parse_plan(
+        "base = \"d.toml\"\n[axes]\n\"geometry.spacer_thickness_nm\" = [4.0, 9.0]\n\"geometry.spacer\" = [\"air\", \"Si3N4\"]\n",
+        dir.path(),
+    )
+    .unwrap();
+    let out = dir.path().join("s.h5");
+    let opts = gatehold::sweep::SweepOptions {
+        jobs: 2,
+        command_line: "test".into(),
+        ..Default::default()
+    };
+    gatehold::sweep::run_sweep(&plan, &out, &opts, &gatehold::sweep::Quiet).unwrap();
+    let f = gatehold::io::hdf5::read_sweep(&out).unwrap();
+    assert_eq!(gatehold::io::units_of("c_gc_on_F_per_um"), "F/um");
+    assert_eq!(gatehold::io::units_of("tau_ps"), "ps");
+    let cgc = f.figure("c_gc_on_F_per_um").unwrap();
+    let tau = f.figure("tau_ps").unwrap();
+    assert_eq!(cgc.len(), 4);
+    assert!(tau.iter().all(|t| t.is_finite() && *t > 0.0));
+    // Plan order: (4, air), (4, Si3N4), (9, air), (9, Si3N4).
+    assert!(cgc[0] > cgc[2] && cgc[1] > cgc[3], "{cgc:?}");
+    assert!(cgc[1] > cgc[0] && cgc[3] > cgc[2], "{cgc:?}");
 }

@@ -102,6 +102,8 @@ pub fn demo(args: &DemoArgs) -> anyhow::Result<Exit> {
     print!("{text}");
     let (pitch, pitch_missing) =
         super::pitch::demo_part(&args.out, opts.jobs, args.dibl_max, args.ss_max)?;
-    print!("\nPitch study of the node (ridge-7 double gate):\n{pitch}");
+    let pitch = format!("\nPitch study of the node (ridge-7 double gate):\n{pitch}");
+    super::pitch::append(&summary_file, &pitch)?;
+    print!("{pitch}");
     Ok(Exit::missing_if(run.failed > 0 || pitch_missing))
 }

@@ -173,3 +173,13 @@ pub fn demo_part(
     plots(&base, &study, out).context("demo pitch plots")?;
     Ok((text, study.rows.iter().any(|r| r.status != "ok")))
 }
+
+/// Appends `text` to the file at `path` (the demo's summary).
+pub fn append(path: &Path, text: &str) -> Result<()> {
+    use std::io::Write;
+    std::fs::OpenOptions::new()
+        .append(true)
+        .open(path)
+        .and_then(|mut f| f.write_all(text.as_bytes()))
+        .with_context(|| format!("writing {}", path.display()))
+}

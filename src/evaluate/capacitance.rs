@@ -159,19 +159,24 @@ pub fn maxwell_matrix(
     terminal_of: &[Option<usize>],
     terminals: usize,
 ) -> Result<Vec<Vec<f64>>, SolveError> {
-    let mut m = vec![vec![0.0; terminals]; terminals];
+    // Column j: the terminals' charges when terminal j rises by 1 V.
+    let mut columns = Vec::with_capacity(terminals);
     for j in 0..terminals {
         let raised: Vec<bool> = (0..p.node_count())
             .map(|k| p.nodes[k] != NodeKind::Free && terminal_of[k] == Some(j))
             .collect();
         let dq = charge_response(p, solver, psi, qf, &raised)?;
-        for (k, q) in dq.iter().enumerate() {
-            if let Some(i) = terminal_of[k] {
-                m[i][j] += q;
+        let mut column = vec![0.0; terminals];
+        for (q, t) in dq.iter().zip(terminal_of) {
+            if let Some(i) = *t {
+                column[i] += q;
             }
         }
+        columns.push(column);
     }
-    Ok(m)
+    Ok((0..terminals)
+        .map(|i| columns.iter().map(|c| c[i]).collect())
+        .collect())
 }
 
 /// The gate's capacitances at the converged equilibrium `psi` (V_DS = 0).
