@@ -537,3 +537,47 @@ fn pitch_keys_are_sweep_axes_and_capacitances_go_into_the_file() {
     assert!(cgc[0] > cgc[2] && cgc[1] > cgc[3], "{cgc:?}");
     assert!(cgc[1] > cgc[0] && cgc[3] > cgc[2], "{cgc:?}");
 }
+
+#[test]
+fn p_channel_mirror_gives_the_same_capacitances() {
+    // Symmetry (MODEL.md section 3: a p-channel device is the mirror image
+    // of the n-channel one): mirrored doping, work function and biases give
+    // the same capacitances to 1e-9 relative.
+    let geometry = "contact_width_nm = 14\nspacer_thickness_nm = 6";
+    let n = scenario(geometry);
+    let phi_i = Silicon::at(300.0).phi_i_ev;
+    let text = pitch_device(geometry)
+        .replace(
+            "architecture = \"double-gate\"",
+            "architecture = \"double-gate\"\npolarity = \"p\"",
+        )
+        .replace(
+            "workfunction_eV = 4.55",
+            &format!("workfunction_eV = {}", 2.0 * phi_i - 4.55),
+        )
+        .replace(
+            "vgs_start_V = -0.5\nvgs_stop_V = 0.6",
+            "vgs_start_V = -0.6\nvgs_stop_V = 0.5",
+        );
+    let p = parse_device(&text).unwrap();
+    assert_eq!(p.polarity, gatehold::device::Polarity::P);
+    assert!(
+        (p.bias.vds_sat_v + 0.8).abs() < 1e-12,
+        "mirrored drain bias"
+    );
+    assert!((p.gate.workfunction_ev + n.gate.workfunction_ev - 2.0 * phi_i).abs() < 1e-12);
+    let cap = |s: &Scenario| {
+        let a = along_channel(s);
+        device_capacitance(s, &a, PoissonSolver::new(&a.problem).unwrap()).unwrap()
+    };
+    let (cn, cp) = (cap(&n), cap(&p));
+    for (a, b) in [
+        (cn.off.gate_total, cp.off.gate_total),
+        (cn.on.gate_total, cp.on.gate_total),
+        (cn.on.gate_contact, cp.on.gate_contact),
+        (cn.on.gate_channel, cp.on.gate_channel),
+        (cn.on.gate_source_drain, cp.on.gate_source_drain),
+    ] {
+        assert!(rel(a, b) < 1e-9, "n {a} vs p {b}");
+    }
+}

@@ -4,7 +4,7 @@ use serde::Serialize;
 
 use super::fmt;
 use crate::evaluate::pitch::{PitchRow, PitchStudy};
-use crate::evaluate::CAUTION;
+use crate::evaluate::{DeviceReport, CAUTION};
 
 /// The `pitch --json` object: `rows` and `best` (one of the rows, or null) are the contract.
 #[derive(Debug, Serialize)]
@@ -145,4 +145,54 @@ pub fn pitch_text(study: &PitchStudy) -> String {
     }
     out.push_str(&format!("\n{ESTIMATE_NOTE}.\n{CAUTION}\n"));
     out
+}
+
+/// The capacitance and estimate lines of `gatehold run` (empty for fins).
+pub fn capacitance_text(r: &DeviceReport) -> String {
+    let Some(c) = &r.capacitance else {
+        return String::new();
+    };
+    let mut o = String::from(
+        "  gate capacitance, aF/um of width (V_DS = 0)    off (V_G = 0)   on (V_G = V_DD)\n",
+    );
+    for (label, off, on) in [
+        ("C_gg total", c.off.gate_total, c.on.gate_total),
+        (
+            "to one contact plug (C_gc)",
+            c.off.gate_contact,
+            c.on.gate_contact,
+        ),
+        (
+            "to one side's source/drain silicon",
+            c.off.gate_source_drain,
+            c.on.gate_source_drain,
+        ),
+        (
+            "to the channel (intrinsic)",
+            c.off.gate_channel,
+            c.on.gate_channel,
+        ),
+        (
+            "other (back plane, substrate, body)",
+            c.off.gate_other,
+            c.on.gate_other,
+        ),
+    ] {
+        // aF/um; rounding noise (|C| < 1e-3 aF/um) shown as 0, not -0.0.
+        let af = |v: f64| if v.abs() < 1e-21 { 0.0 } else { 1e18 * v };
+        o.push_str(&format!(
+            "    {label:<42} {:>12.1} {:>15.1}\n",
+            af(off),
+            af(on)
+        ));
+    }
+    o.push_str(&format!(
+        "  I_on estimate (virtual source, v_x0 input)   {:>12} uA/um (screening estimate)\n",
+        fmt(r.ion_a_per_um.map(|i| 1e6 * i), 0)
+    ));
+    o.push_str(&format!(
+        "  delay estimate (C_gg + 2 C_gc) V_DD / I_on   {:>12} ps (screening estimate)\n",
+        fmt(r.tau_ps, 3)
+    ));
+    o
 }
