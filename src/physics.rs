@@ -104,12 +104,14 @@ pub fn dielectric_permittivity(name: &str) -> Option<f64> {
         "Al2O3" => Some(9.0),     // common practice, from memory
         "HfO2" => Some(22.0),     // common practice; 20-25 reported by phase; from memory
         "air" | "vacuum" => Some(1.0),
+        // Carbon-doped oxide, the usual low-k spacer: 2.7-3.3 reported; 3.0 common practice.
+        "SiOC" => Some(3.0),
         _ => None,
     }
 }
 
 /// Names accepted by [`dielectric_permittivity`].
-pub const KNOWN_DIELECTRICS: &[&str] = &["SiO2", "Si3N4", "Al2O3", "HfO2", "air", "vacuum"];
+pub const KNOWN_DIELECTRICS: &[&str] = &["SiO2", "Si3N4", "Al2O3", "HfO2", "air", "vacuum", "SiOC"];
 
 #[cfg(test)]
 mod tests {

@@ -113,5 +113,10 @@ pub fn demo(args: &DemoArgs) -> anyhow::Result<Exit> {
     std::fs::write(&summary_file, &text)
         .with_context(|| format!("writing {}", summary_file.display()))?;
     print!("{text}");
-    Ok(Exit::missing_if(run.failed > 0))
+    let (pitch, pitch_missing) =
+        super::pitch::demo_part(&args.out, opts.jobs, args.dibl_max, args.ss_max)?;
+    let pitch = format!("\nPitch study of the node (ridge-7 double gate):\n{pitch}");
+    super::pitch::append(&summary_file, &pitch)?;
+    print!("{pitch}");
+    Ok(Exit::missing_if(run.failed > 0 || pitch_missing))
 }

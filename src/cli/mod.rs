@@ -6,6 +6,7 @@ pub mod demo;
 pub mod device;
 pub mod exit;
 pub mod interrupt;
+pub mod pitch;
 pub mod progress;
 pub mod sweep;
 
@@ -90,6 +91,8 @@ enum Command {
     /// Print the device-file and plan reference (markdown; docs/device-file.md).
     #[command(hide = true)]
     Keys,
+    /// Split a contacted gate pitch into gate, spacers and contact: every split solved, the best compliant one.
+    Pitch(pitch::PitchArgs),
     /// Print a commented device file to start from.
     Template {
         /// bulk | thin-body | double-gate | tri-gate | gate-all-around | capped-fin
@@ -133,6 +136,7 @@ pub fn run(cli: Cli) -> anyhow::Result<Exit> {
         Command::Merge(a) => sweep::merge(&a),
         Command::Plot(a) => sweep::plot(&a),
         Command::Demo(a) => demo::demo(&a),
+        Command::Pitch(a) => pitch::pitch(&a),
         Command::Template { architecture } => device::template(&architecture),
         Command::Check { file, plan } => device::check(&file, plan),
         Command::Keys => {

@@ -11,6 +11,8 @@
 //! The demo data is invented; its targets (DIBL <= 100 mV/V, SS <= 80 mV/dec
 //! by default) are common-practice screening targets, not standards.
 
+pub mod pitch;
+
 use crate::evaluate::Criteria;
 use crate::sweep::plan::{parse_plan_with, Plan, PlanError};
 

@@ -74,6 +74,10 @@ const TABLE_KEYS: &[(&str, &[&str])] = &[
             "box_material",
             "cap_thickness_nm",
             "cap_material",
+            "gate_pitch_nm",
+            "spacer_thickness_nm",
+            "contact_width_nm",
+            "spacer_permittivity",
         ],
     ),
     (
@@ -102,7 +106,11 @@ const TABLE_KEYS: &[(&str, &[&str])] = &[
     ),
     (
         "extraction",
-        &["current_criterion_A", "mobility_cm2_per_Vs"],
+        &[
+            "current_criterion_A",
+            "mobility_cm2_per_Vs",
+            "injection_velocity_cm_per_s",
+        ],
     ),
     ("mesh", &["max_step_nm", "refinement", "max_nodes"]),
 ];
@@ -373,6 +381,11 @@ pub const LIMITS: &[Limit] = &[
     Limit { key: "bias.off_vgs_V", min: -5.0, max: 5.0, unit: "V", why: "inside the gate sweep" },
     Limit { key: "extraction.current_criterion_A", min: 1e-12, max: 1e-4, unit: "A", why: "I_cc per square: outside 1 pA to 100 uA no gate sweep in range reaches it (every V_t would be missing)" },
     Limit { key: "extraction.mobility_cm2_per_Vs", min: 1.0, max: 1e5, unit: "cm^2/Vs", why: "constant mobility" },
+    Limit { key: "extraction.injection_velocity_cm_per_s", min: 1e5, max: 1e8, unit: "cm/s", why: "virtual-source injection velocity: silicon devices report 0.5e7 to 1.5e7 cm/s; outside 1e5 to 1e8 cm/s it is not a carrier velocity" },
+    Limit { key: "geometry.gate_pitch_nm", min: 3.0, max: 10_000.0, unit: "nm", why: "contacted gate pitch: gate, two spacers and a contact, at most 10 um" },
+    Limit { key: "geometry.spacer_thickness_nm", min: 0.5, max: 1_000.0, unit: "nm", why: "spacer between gate and contact plug: thinner than 0.5 nm is no insulator; above 1 um only adds mesh" },
+    Limit { key: "geometry.contact_width_nm", min: 1.0, max: 5_000.0, unit: "nm", why: "contact plug width: at least 1 nm (two mesh cells), at most 5 um" },
+    Limit { key: "geometry.spacer_permittivity", min: 1.0, max: 100.0, unit: "", why: "a spacer dielectric's relative permittivity (air 1)" },
     Limit { key: "mesh.max_step_nm", min: 0.05, max: 5.0, unit: "nm", why: "largest mesh cell" },
     Limit { key: "mesh.refinement", min: 1.0, max: 8.0, unit: "", why: "divides every mesh step" },
     Limit { key: "mesh.max_nodes", min: 1_000.0, max: 1e8, unit: "nodes", why: "the node budget checked before any mesh is built" },
@@ -561,6 +574,117 @@ fn dielectric(key: &str, name: &str) -> Result<f64, DeviceError> {
     })
 }
 
+/// Default virtual-source injection velocity, cm/s (common practice for
+/// silicon n-channel devices; Khakifirooz, Nayfeh and Antoniadis, IEEE TED
+/// 56(8), 1674, 2009 extract about 1e7 cm/s at these nodes).
+pub const DEFAULT_INJECTION_VELOCITY_CM_PER_S: f64 = 1.0e7;
+
+/// Tolerance on `gate_pitch_nm = gate_length_nm + 2 spacer_thickness_nm +
+/// contact_width_nm` when all three are given, nm.
+pub const PITCH_TOLERANCE_NM: f64 = 1e-3;
+
+/// The spacer: a named material (`geometry.spacer`) or an explicit
+/// `geometry.spacer_permittivity`, not both.
+fn spacer(r: &Reader) -> Result<(String, f64), DeviceError> {
+    let name = r.string("geometry.spacer")?;
+    match (name, r.number("geometry.spacer_permittivity")?) {
+        (Some(_), Some(e)) => Err(invalid(
+            "geometry.spacer_permittivity",
+            e,
+            "give either geometry.spacer (a material) or geometry.spacer_permittivity, not both",
+        )),
+        (None, Some(e)) => {
+            let e = bounded("geometry.spacer_permittivity", e)?;
+            Ok((format!("eps={e}"), e))
+        }
+        (name, None) => {
+            let name = name.unwrap_or("Si3N4");
+            Ok((name.to_string(), dielectric("geometry.spacer", name)?))
+        }
+    }
+}
+
+/// Contact plugs of a planar section: any two of `gate_pitch_nm`,
+/// `spacer_thickness_nm` and `contact_width_nm` give the third (with the gate
+/// length); all three given must agree to [`PITCH_TOLERANCE_NM`]. None when
+/// neither the pitch nor the contact width is given.
+fn contacts(r: &Reader, gate_length_nm: f64) -> Result<Option<Contacts>, DeviceError> {
+    let read = |key: &str| -> Result<Option<f64>, DeviceError> {
+        r.number(key)?
+            .map(|x| bounded(key, positive(key, x)?))
+            .transpose()
+    };
+    let pitch = read("geometry.gate_pitch_nm")?;
+    let spacer = read("geometry.spacer_thickness_nm")?;
+    let width = read("geometry.contact_width_nm")?;
+    if pitch.is_none() && width.is_none() {
+        if let Some(t) = spacer {
+            return Err(invalid(
+                "geometry.spacer_thickness_nm",
+                t,
+                "contact plugs need geometry.gate_pitch_nm or geometry.contact_width_nm as well",
+            ));
+        }
+        return Ok(None);
+    }
+    if r.given("geometry.source_drain_length_nm") {
+        return Err(invalid(
+            "geometry.source_drain_length_nm",
+            r.number("geometry.source_drain_length_nm")?.unwrap_or(f64::NAN),
+            "with contact plugs the source/drain silicon is spacer_thickness_nm + contact_width_nm / 2; remove this key",
+        ));
+    }
+    let (spacer, width) = match (pitch, spacer, width) {
+        (Some(p), Some(t), Some(w)) => {
+            let sum = gate_length_nm + 2.0 * t + w;
+            if (sum - p).abs() > PITCH_TOLERANCE_NM {
+                return Err(invalid(
+                    "geometry.gate_pitch_nm",
+                    p,
+                    format!(
+                        "disagrees with gate_length_nm + 2 spacer_thickness_nm + contact_width_nm = {sum} nm; give any two of the three"
+                    ),
+                ));
+            }
+            (t, w)
+        }
+        (Some(p), Some(t), None) => (t, p - gate_length_nm - 2.0 * t),
+        (Some(p), None, Some(w)) => (0.5 * (p - gate_length_nm - w), w),
+        (None, Some(t), Some(w)) => (t, w),
+        (Some(p), None, None) => {
+            return Err(invalid(
+                "geometry.gate_pitch_nm",
+                p,
+                "also give geometry.spacer_thickness_nm or geometry.contact_width_nm (any two of the three)",
+            ))
+        }
+        (None, None, Some(w)) => {
+            return Err(invalid(
+                "geometry.contact_width_nm",
+                w,
+                "also give geometry.spacer_thickness_nm or geometry.gate_pitch_nm (any two of the three)",
+            ))
+        }
+        (None, _, None) => unreachable!("handled above"),
+    };
+    let limit = |key: &str, x: f64| {
+        bounded(key, x).map_err(|_| {
+        invalid(
+            key,
+            x,
+            format!(
+                "derived from geometry.gate_pitch_nm = {} and gate_length_nm = {gate_length_nm}: the pitch leaves no room for it",
+                pitch.unwrap_or(f64::NAN)
+            ),
+        )
+    })
+    };
+    Ok(Some(Contacts {
+        spacer_thickness_nm: limit("geometry.spacer_thickness_nm", spacer)?,
+        contact_width_nm: limit("geometry.contact_width_nm", width)?,
+    }))
+}
+
 /// The rules on the gate length (shared by validation and
 /// [`Scenario::with_gate_length`]): positive, at least two mesh cells, at
 /// most 100 um, and long enough that overlapping junctions do not meet.
@@ -682,6 +806,7 @@ pub fn scenario_from_table(root: &toml::Table) -> Result<Scenario, DeviceError> 
             ),
             "junction_depth_nm" | "substrate_depth_nm" => arch == Architecture::Bulk,
             "cap_thickness_nm" | "cap_material" => arch == Architecture::CappedFin,
+            "gate_pitch_nm" | "spacer_thickness_nm" | "contact_width_nm" => arch.is_planar(),
             _ => true,
         }
     };
@@ -816,8 +941,8 @@ pub fn scenario_from_table(root: &toml::Table) -> Result<Scenario, DeviceError> 
     }
     let stack_t: f64 = stack.iter().map(|l| l.thickness_nm).sum();
 
-    let spacer_material = r.string("geometry.spacer")?.unwrap_or("Si3N4").to_string();
-    let spacer_eps = dielectric("geometry.spacer", &spacer_material)?;
+    let (spacer_material, spacer_eps) = spacer(&r)?;
+    let contacts = contacts(&r, gate_length_nm)?;
     let box_material = r.string("geometry.box_material")?.unwrap_or("SiO2");
     let box_eps = dielectric("geometry.box_material", box_material)?;
     let cap_material = r.string("geometry.cap_material")?.unwrap_or("SiO2");
@@ -836,7 +961,10 @@ pub fn scenario_from_table(root: &toml::Table) -> Result<Scenario, DeviceError> 
             },
         )?,
         box_thickness_nm: g("box_thickness_nm", 25.0)?,
-        source_drain_length_nm: g("source_drain_length_nm", 15.0)?,
+        source_drain_length_nm: match &contacts {
+            Some(c) => c.source_drain_length_nm(),
+            None => g("source_drain_length_nm", 15.0)?,
+        },
         junction_depth_nm: g("junction_depth_nm", 15.0)?,
         substrate_depth_nm: g("substrate_depth_nm", 100.0)?,
         gate_height_nm: g("gate_height_nm", 20.0)?,
@@ -845,6 +973,7 @@ pub fn scenario_from_table(root: &toml::Table) -> Result<Scenario, DeviceError> 
         box_eps,
         cap_thickness_nm: g("cap_thickness_nm", 10.0)?,
         cap_eps,
+        contacts,
     };
     if arch == Architecture::Bulk && geometry.junction_depth_nm >= geometry.substrate_depth_nm {
         return Err(invalid(
@@ -1072,6 +1201,12 @@ pub fn scenario_from_table(root: &toml::Table) -> Result<Scenario, DeviceError> 
                 1.0,
                 1e5,
                 "cm^2/Vs",
+            )?,
+        injection_velocity_nm_per_s: 1e7
+            * bounded(
+                "extraction.injection_velocity_cm_per_s",
+                r.number("extraction.injection_velocity_cm_per_s")?
+                    .unwrap_or(DEFAULT_INJECTION_VELOCITY_CM_PER_S),
             )?,
     };
     let mesh = MeshSettings {

@@ -134,6 +134,33 @@ pub struct Geometry {
     /// Capped fin: dielectric cap thickness on the fin top.
     pub cap_thickness_nm: f64,
     pub cap_eps: f64,
+    /// Contact plugs beside the gate (planar sections); None: the section
+    /// without plugs, its ohmic contacts on the outer silicon faces.
+    pub contacts: Option<Contacts>,
+}
+
+/// Contact plugs of a planar along-channel section (one period of the
+/// contacted gate pitch: half a plug, spacer, gate, spacer, half a plug).
+/// The source/drain silicon is `spacer_thickness_nm + contact_width_nm / 2`
+/// long; the ohmic contact is the silicon surface under each plug.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct Contacts {
+    /// Spacer between the gate electrode and each plug, nm.
+    pub spacer_thickness_nm: f64,
+    /// Full width of one plug (the section holds half of each), nm.
+    pub contact_width_nm: f64,
+}
+
+impl Contacts {
+    /// Source (or drain) silicon length beyond the gate edge, nm.
+    pub fn source_drain_length_nm(&self) -> f64 {
+        self.spacer_thickness_nm + 0.5 * self.contact_width_nm
+    }
+
+    /// Contacted gate pitch for gate length `gate_length_nm`, nm.
+    pub fn pitch_nm(&self, gate_length_nm: f64) -> f64 {
+        gate_length_nm + 2.0 * self.spacer_thickness_nm + self.contact_width_nm
+    }
 }
 
 /// Gate electrodes.
@@ -185,6 +212,9 @@ pub struct Extraction {
     pub current_criterion_a: f64,
     /// Constant mobility, nm^2/(V s) (the file's cm^2/(V s) converted at validation).
     pub mobility_nm2_per_vs: f64,
+    /// Virtual-source injection velocity for the on-current estimate, nm/s
+    /// (the file's cm/s converted at validation).
+    pub injection_velocity_nm_per_s: f64,
 }
 
 /// Mesh settings.

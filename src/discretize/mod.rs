@@ -9,6 +9,8 @@
 //! crosses. Space charge and doping are integrated over the semiconductor
 //! part of each box only.
 
+pub mod charge;
+
 use crate::mesh::Line;
 use crate::physics::{Silicon, EPS_SI, Q_OVER_EPS0_V_NM};
 

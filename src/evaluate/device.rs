@@ -4,6 +4,7 @@
 //! place ([`build_report`]) with the Liu et al. (IEEE TED 40(1), 86, 1993)
 //! theory beside the figures.
 
+use super::capacitance::{self, device_capacitance, CapacitanceFigures};
 use super::reference::{Reference, ReferenceError};
 use super::report::{DeviceReport, Method, CAUTION};
 use crate::device::Scenario;
@@ -48,6 +49,7 @@ pub struct Evaluation {
 /// else [`build_report`] takes from the scenario and the reference.
 struct Figures {
     method: Method,
+    capacitance: Option<CapacitanceFigures>,
     vt_lin_v: Option<f64>,
     vt_sat_v: Option<f64>,
     ss_lin_mv_per_dec: Option<f64>,
@@ -110,8 +112,13 @@ pub fn solve_planar(
     let solver = PoissonSolver::new(&structure.problem)?;
     let unknowns = solver.unknowns();
     let solver2 = solver.clone();
-    let (lin, sat) = rayon::join(
-        || DeviceSolver::new(s, &structure, solver).gate_ramp(s.bias.vds_lin_v, observer),
+    let solver3 = solver.clone();
+    let ((lin, cap), sat) = rayon::join(
+        || {
+            let lin =
+                DeviceSolver::new(s, &structure, solver).gate_ramp(s.bias.vds_lin_v, observer);
+            (lin, device_capacitance(s, &structure, solver3))
+        },
         || DeviceSolver::new(s, &structure, solver2).gate_ramp(s.bias.vds_sat_v, observer),
     );
     let (lin, sat) = (lin?, sat?);
@@ -119,6 +126,7 @@ pub fn solve_planar(
     observer.solved(SolveKind::GateRamp);
     let target = threshold_current(s);
     let mut problems = Vec::new();
+    let capacitance = cap.map_err(|e| problems.push(e.to_string())).ok();
     let mut figures = |ramp: &GateRamp, label: &str| match ramp_figures(ramp, target) {
         Ok(v) => Some(v),
         Err(e) => {
@@ -154,6 +162,7 @@ pub fn solve_planar(
         reference,
         Figures {
             method: Method::TwoDSolve,
+            capacitance,
             vt_lin_v: lin_f.map(|f| f.0),
             vt_sat_v: sat_f.map(|f| f.0),
             ss_lin_mv_per_dec: lin_f.map(|f| f.1),
@@ -343,6 +352,7 @@ fn fin_report(s: &Scenario, reference: &Reference) -> DeviceReport {
         reference,
         Figures {
             method: Method::Theory,
+            capacitance: None,
             vt_lin_v: vt_long.zip(est).map(|(v, e)| v + e.roll_off_lin_v),
             vt_sat_v: vt_long.zip(est).map(|(v, e)| v + e.roll_off_sat_v),
             ss_lin_mv_per_dec: ss,
@@ -400,6 +410,21 @@ fn build_report(s: &Scenario, reference: &Reference, f: Figures) -> DeviceReport
             .map(|(a, b)| extract::dibl(a, b, lin, sat)),
         Method::Theory => theory.map(|t| t.dibl_mv_per_v),
     };
+    let vdd = s.bias.vds_sat_v;
+    let ion_a_per_um = f.capacitance.as_ref().zip(f.vt_sat_v).and_then(|(c, vt)| {
+        capacitance::on_current_a_per_um(
+            c.on.gate_channel,
+            s.geometry.gate_length_nm,
+            vdd,
+            vt,
+            s.extraction.injection_velocity_nm_per_s,
+        )
+    });
+    let tau_ps = f
+        .capacitance
+        .as_ref()
+        .zip(ion_a_per_um)
+        .map(|(c, i)| capacitance::delay_ps(c, vdd, i));
     let closed = closed_form::natural_length(s);
     let ni = crate::physics::Silicon::at(s.temperature_k).ni;
     DeviceReport {
@@ -442,6 +467,9 @@ fn build_report(s: &Scenario, reference: &Reference, f: Figures) -> DeviceReport
         l_elec_at_vt_nm: None,
         vt_rolloff_residual_mv: None,
         off_vgs_v: s.bias.off_vgs_v,
+        capacitance: f.capacitance,
+        ion_a_per_um,
+        tau_ps,
         method: f.method,
         converged: f.converged,
         nodes: f.nodes,

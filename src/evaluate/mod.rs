@@ -8,9 +8,13 @@
 //! | the report type and its enums | [`report`] | [`DeviceReport`], [`Status`], [`Method`] |
 //! | screening criteria and their verdict | [`criteria`] | [`Criteria::judge`] |
 //! | gate-length scans | [`scan`] | [`scan::scan`] |
+//! | capacitances, on-current and delay estimates | [`capacitance`] | [`capacitance::device_capacitance`] |
+//! | splits of a contacted gate pitch | [`pitch`] | [`pitch::run_pitch`] |
 
+pub mod capacitance;
 pub mod criteria;
 pub mod device;
+pub mod pitch;
 pub mod reference;
 pub mod report;
 pub mod scan;

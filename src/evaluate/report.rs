@@ -180,6 +180,14 @@ pub struct DeviceReport {
     /// The gate voltage of I_off and of the barriers (`bias.off_vgs_V`), V.
     #[serde(rename = "off_vgs_V")]
     pub off_vgs_v: f64,
+    /// Gate capacitances per um of width, off and on, at V_DS = 0 (planar
+    /// devices; see [`crate::evaluate::capacitance`]).
+    pub capacitance: Option<crate::evaluate::capacitance::CapacitanceFigures>,
+    /// Screening estimate of the on-current (virtual-source form), A/um.
+    #[serde(rename = "ion_A_per_um")]
+    pub ion_a_per_um: Option<f64>,
+    /// Screening estimate of the delay (C_gg + 2 C_gc) V_DD / I_on, ps.
+    pub tau_ps: Option<f64>,
     pub method: Method,
     pub converged: bool,
     pub nodes: usize,
@@ -242,6 +250,32 @@ pub const SCALARS: &[(&str, Scalar)] = &[
     }),
     ("vt_rolloff_length_mV", |r| r.vt_rolloff_length_mv),
     ("ioff_A_per_um", |r| r.ioff_a_per_um),
+    ("c_gg_off_F_per_um", |r| {
+        r.capacitance.as_ref().map(|c| c.off.gate_total)
+    }),
+    ("c_gc_off_F_per_um", |r| {
+        r.capacitance.as_ref().map(|c| c.off.gate_contact)
+    }),
+    ("c_gsd_off_F_per_um", |r| {
+        r.capacitance.as_ref().map(|c| c.off.gate_source_drain)
+    }),
+    ("c_gch_off_F_per_um", |r| {
+        r.capacitance.as_ref().map(|c| c.off.gate_channel)
+    }),
+    ("c_gg_on_F_per_um", |r| {
+        r.capacitance.as_ref().map(|c| c.on.gate_total)
+    }),
+    ("c_gc_on_F_per_um", |r| {
+        r.capacitance.as_ref().map(|c| c.on.gate_contact)
+    }),
+    ("c_gsd_on_F_per_um", |r| {
+        r.capacitance.as_ref().map(|c| c.on.gate_source_drain)
+    }),
+    ("c_gch_on_F_per_um", |r| {
+        r.capacitance.as_ref().map(|c| c.on.gate_channel)
+    }),
+    ("ion_A_per_um", |r| r.ion_a_per_um),
+    ("tau_ps", |r| r.tau_ps),
 ];
 
 impl DeviceReport {

@@ -439,6 +439,9 @@ pub fn describe_figure(name: &str) -> String {
 /// Units of a column from its name's suffix (the project's naming rule); "1" if dimensionless.
 pub fn units_of(name: &str) -> &'static str {
     const SUFFIXES: &[(&str, &str)] = &[
+        ("_F_per_um", "F/um"),
+        ("_cm_per_s", "cm/s"),
+        ("_ps", "ps"),
         ("_mV_per_dec", "mV/dec"),
         ("_mV_per_V", "mV/V"),
         ("_nm_per_decade", "nm/decade"),

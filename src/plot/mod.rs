@@ -401,3 +401,5 @@ pub fn sweep_plots_with(
     }
     Ok(out)
 }
+
+pub mod pitch;

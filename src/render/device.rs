@@ -150,6 +150,7 @@ pub fn device_text(r: &DeviceReport) -> String {
             "(common practice: at least 5-6)",
         );
     }
+    o.push_str(&super::pitch::capacitance_text(r));
     o.push_str(&format!(
         "  mesh {} nodes ({} unknowns); {} bias points; {} Newton steps, {} factorisations; converged: {}\n",
         r.nodes, r.unknowns, r.bias_points, r.newton_steps_total, r.factorisations_total, r.converged

@@ -257,6 +257,33 @@ impl PoissonSolver {
         })
     }
 
+    /// The free nodes in unknown order (the order of the vectors of
+    /// [`PoissonSolver::solve_linearised`]).
+    pub fn unknown_nodes(&self) -> &[usize] {
+        &self.pattern.node_of
+    }
+
+    /// Solves the linearised system J x = b, J = -dF/dpsi at `psi` with the
+    /// quasi-Fermi levels `qf` (the Jacobian Newton uses, so its symbolic
+    /// analysis is reused), `b` one value per unknown in the order of
+    /// [`PoissonSolver::unknown_nodes`], overwritten by x. J is factorised at
+    /// `psi` by one Newton step taken on a copy of `psi` and thrown away.
+    pub fn solve_linearised(
+        &mut self,
+        p: &Problem,
+        psi: &[f64],
+        qf: &QuasiFermi,
+        b: &mut [f64],
+    ) -> Result<(), SolveError> {
+        assert_eq!(b.len(), self.pattern.n, "one value per unknown");
+        let mut scratch = psi.to_vec();
+        self.step(p, &mut scratch, qf, f64::INFINITY, true)?;
+        let llt = faer::sparse::linalg::cholesky::LltRef::new(&self.symbolic, &self.l_values);
+        let x = MatMut::from_column_major_slice_mut(b, self.pattern.n, 1);
+        llt.solve_in_place_with_conj(Conj::No, x, Par::Seq, MemStack::new(&mut self.smem));
+        Ok(())
+    }
+
     /// Newton iteration with fixed quasi-Fermi levels until converged or out of steps.
     pub fn solve(
         &mut self,

@@ -9,7 +9,7 @@ use super::{
 };
 use crate::device::Scenario;
 use crate::discretize::Problem;
-use crate::structure::{AlongChannel, BACK_PLANE, GATE};
+use crate::structure::{AlongChannel, BACK_PLANE, ELECTRODES, GATE, PLUG_DRAIN, PLUG_SOURCE};
 
 /// Convergence of the channel carrier's quasi-Fermi level between iterations, V (MODEL.md section 4).
 pub const QF_TOL_V: f64 = 1e-7;
@@ -51,9 +51,15 @@ impl<'a> DeviceSolver<'a> {
         let p = self.problem();
         let si = p.silicon;
         let g = &self.scenario.gate;
-        let mut electrodes = [0.0; 2];
+        let mut electrodes = [0.0; ELECTRODES];
         electrodes[GATE] = si.electrode_potential(vgs, g.workfunction_ev);
         electrodes[BACK_PLANE] = si.electrode_potential(g.back_bias_v, g.back_workfunction_ev);
+        if let Some(plugs) = &self.structure.plugs {
+            // Each plug at the ohmic potential of the silicon beneath it.
+            let [ns, nd] = plugs.net_doping_per_nm3;
+            electrodes[PLUG_SOURCE] = si.ohmic_potential(0.0, ns);
+            electrodes[PLUG_DRAIN] = si.ohmic_potential(vds, nd);
+        }
         apply_boundaries(p, psi, &electrodes, &[0.0, vds, 0.0]);
     }
 

@@ -11,11 +11,17 @@ pub mod fin;
 pub mod planar;
 
 pub use fin::{cross_section, CrossSection, CrossSectionError, Region, WIDTH_DEFINITION};
-pub use planar::{along_channel, long_channel_column, AlongChannel, DopingProfile};
+pub use planar::{along_channel, long_channel_column, AlongChannel, DopingProfile, Plugs};
 
 /// Electrode numbers.
 pub const GATE: usize = 0;
 pub const BACK_PLANE: usize = 1;
+/// Contact plug over the source (planar sections with contacts).
+pub const PLUG_SOURCE: usize = 2;
+/// Contact plug over the drain.
+pub const PLUG_DRAIN: usize = 3;
+/// Number of electrode numbers in use (the length of an electrode-potential array).
+pub const ELECTRODES: usize = 4;
 /// Contact numbers.
 pub const SOURCE: usize = 0;
 pub const DRAIN: usize = 1;

@@ -8,8 +8,8 @@
 //! and the bulk [`SUBSTRATE`].
 
 use super::{
-    lookup, BACK_PLANE, DRAIN, FINE_INTERFACE_NM, FINE_JUNCTION_NM, FINE_OTHER_NM, GATE, SOURCE,
-    SUBSTRATE,
+    lookup, BACK_PLANE, DRAIN, FINE_INTERFACE_NM, FINE_JUNCTION_NM, FINE_OTHER_NM, GATE,
+    PLUG_DRAIN, PLUG_SOURCE, SOURCE, SUBSTRATE,
 };
 use crate::device::{Architecture, Polarity, Scenario};
 use crate::discretize::{CellKind, Problem};
@@ -129,6 +129,65 @@ pub struct AlongChannel {
     pub doping: DopingProfile,
     /// Double gate: only the upper half is meshed; the structure mirrors about this y (nm).
     pub mirror_plane_nm: Option<f64>,
+    /// Contact plugs (electrodes [`PLUG_SOURCE`], [`PLUG_DRAIN`]); None: ohmic contacts on the outer faces.
+    pub plugs: Option<Plugs>,
+}
+
+/// The contact plugs of a planar section with `geometry.contacts`: metal
+/// from the silicon surface up to the gate top, over x in [0, half_width_nm]
+/// (source) and [end - half_width_nm, end] (drain). Each plug sits at the
+/// ohmic (charge-neutral) potential of the silicon beneath it, so the silicon
+/// surface under it is the ohmic contact; the outer faces x = 0 and x = end
+/// are symmetry planes of the pitch.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Plugs {
+    /// Half the contact width (the part of each plug inside the section), nm.
+    pub half_width_nm: f64,
+    /// x of the section's drain end, nm.
+    pub end_nm: f64,
+    /// Top of the plugs (= top of the gate electrode), y in nm (negative: above the silicon).
+    pub top_nm: f64,
+    /// Net doping under the source plug and under the drain plug, nm^-3 (positive: n-type).
+    pub net_doping_per_nm3: [f64; 2],
+}
+
+impl Plugs {
+    /// The plugs of scenario `s` (None without `geometry.contacts`).
+    pub fn of(s: &Scenario, doping: &DopingProfile) -> Option<Plugs> {
+        let c = s.geometry.contacts?;
+        let end = 2.0 * s.geometry.source_drain_length_nm + s.geometry.gate_length_nm;
+        let w = 0.5 * c.contact_width_nm;
+        Some(Plugs {
+            half_width_nm: w,
+            end_nm: end,
+            top_nm: -(s.stack_thickness_nm() + s.geometry.gate_height_nm),
+            net_doping_per_nm3: [
+                doping.net_avg(0.0, w, 0.0, 0.0),
+                doping.net_avg(end - w, end, 0.0, 0.0),
+            ],
+        })
+    }
+
+    /// The plug metal at (x, y), if any.
+    pub fn material_at(&self, x: f64, y: f64) -> Option<CellKind> {
+        if y >= 0.0 {
+            None
+        } else if x < self.half_width_nm {
+            Some(CellKind::Metal(PLUG_SOURCE))
+        } else if x > self.end_nm - self.half_width_nm {
+            Some(CellKind::Metal(PLUG_DRAIN))
+        } else {
+            None
+        }
+    }
+
+    /// Mesh hard points in x: the plug faces (refined like other electrode corners).
+    pub fn hard_points_x(&self) -> [(f64, f64); 2] {
+        [
+            (self.half_width_nm, FINE_OTHER_NM),
+            (self.end_nm - self.half_width_nm, FINE_OTHER_NM),
+        ]
+    }
 }
 
 struct VerticalLayout {
@@ -251,8 +310,13 @@ pub fn along_channel(s: &Scenario) -> AlongChannel {
     let l = g.gate_length_nm;
     let total = 2.0 * sd + l;
     let doping = DopingProfile::of(s);
+    let plugs = Plugs::of(s, &doping);
     let mut hard = vec![0.0, sd, sd + l, total];
     let mut fine = vec![(sd, FINE_JUNCTION_NM), (sd + l, FINE_JUNCTION_NM)];
+    for (p, h) in plugs.iter().flat_map(|p| p.hard_points_x()) {
+        hard.push(p);
+        fine.push((p, h));
+    }
     for e in [doping.source_edge, doping.drain_edge] {
         if e > 1e-6 && e < total - 1e-6 {
             hard.push(e);
@@ -272,13 +336,18 @@ pub fn along_channel(s: &Scenario) -> AlongChannel {
         x,
         y,
         silicon,
-        |xc, yc| planar_material(s, xc, yc, gate),
+        |xc, yc| {
+            plugs
+                .and_then(|p| p.material_at(xc, yc))
+                .unwrap_or_else(|| planar_material(s, xc, yc, gate))
+        },
         |i, j| {
+            let faces = plugs.is_none(); // with plugs the outer faces are symmetry planes
             if bulk && j == ny - 1 {
                 Some(SUBSTRATE)
-            } else if i == 0 && (!bulk || ys[j] <= well + 1e-9) {
+            } else if faces && i == 0 && (!bulk || ys[j] <= well + 1e-9) {
                 Some(SOURCE)
-            } else if i == nx - 1 && (!bulk || ys[j] <= well + 1e-9) {
+            } else if faces && i == nx - 1 && (!bulk || ys[j] <= well + 1e-9) {
                 Some(DRAIN)
             } else {
                 None
@@ -303,6 +372,7 @@ pub fn along_channel(s: &Scenario) -> AlongChannel {
         silicon_bottom_nm,
         doping,
         mirror_plane_nm,
+        plugs,
     }
 }
 
