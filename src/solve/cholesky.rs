@@ -56,7 +56,6 @@ struct Pattern {
 
 impl PoissonSolver {
     fn pattern(p: &Problem) -> (Pattern, Vec<f64>) {
-        let nx = p.nx;
         let mut unknown_of = vec![NONE; p.node_count()];
         let mut node_of = Vec::new();
         for (k, kind) in p.nodes.iter().enumerate() {
@@ -72,39 +71,24 @@ impl PoissonSolver {
         let mut diag_pos = Vec::with_capacity(n);
         col_ptr.push(0);
         for &k in &node_of {
-            let (i, j) = (k % nx, k / nx);
-            // Neighbours in increasing node (hence unknown) order.
-            let push = |nb: usize, c: f64, row_idx: &mut Vec<usize>, values: &mut Vec<f64>| {
-                let u = unknown_of[nb];
+            // Neighbours in increasing node (hence unknown) order: z-, y-, x-, x+, y+, z+.
+            let nb = p.neighbours(k);
+            for (m, c) in [nb[4], nb[2], nb[0]].into_iter().flatten() {
+                let u = unknown_of[m];
                 if u != NONE {
                     row_idx.push(u);
                     values.push(-c);
                 }
-            };
-            if j > 0 {
-                push(
-                    k - nx,
-                    p.coef_y[i + (j - 1) * nx],
-                    &mut row_idx,
-                    &mut values,
-                );
-            }
-            if i > 0 {
-                push(
-                    k - 1,
-                    p.coef_x[i - 1 + j * (nx - 1)],
-                    &mut row_idx,
-                    &mut values,
-                );
             }
             diag_pos.push(row_idx.len());
             row_idx.push(unknown_of[k]);
             values.push(0.0);
-            if i + 1 < nx {
-                push(k + 1, p.coef_x[i + j * (nx - 1)], &mut row_idx, &mut values);
-            }
-            if j + 1 < p.ny {
-                push(k + nx, p.coef_y[i + j * nx], &mut row_idx, &mut values);
+            for (m, c) in [nb[1], nb[3], nb[5]].into_iter().flatten() {
+                let u = unknown_of[m];
+                if u != NONE {
+                    row_idx.push(u);
+                    values.push(-c);
+                }
             }
             col_ptr.push(row_idx.len());
         }
@@ -176,7 +160,7 @@ impl PoissonSolver {
         for u in 0..pat.n {
             let k = pat.node_of[u];
             let i = k % nx;
-            let (f, d) = p.residual(psi, i, k / nx, qf.phi_n[i], qf.phi_p[i]);
+            let (f, d) = p.residual(psi, k, qf.phi_n[i], qf.phi_p[i]);
             self.rhs[u] = f;
             self.values[pat.diag_pos[u]] = d;
             worst = worst.max((f / d).abs());
@@ -242,10 +226,12 @@ impl PoissonSolver {
             let d = self.rhs[u];
             let k = pat.node_of[u];
             if !d.is_finite() {
+                let (x_nm, y_nm, z_nm) = p.coords_nm(k);
                 return Err(SolveError::NonFinite {
                     node: k,
-                    x_nm: p.x.nodes[k % p.nx],
-                    y_nm: p.y.nodes[k / p.nx],
+                    x_nm,
+                    y_nm,
+                    z_nm,
                 });
             }
             max_update = max_update.max(d.abs());
