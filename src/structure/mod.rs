@@ -14,7 +14,9 @@ pub mod planar;
 
 pub use fin::{cross_section, CrossSection, CrossSectionError, Region, WIDTH_DEFINITION};
 pub use fin3d::{along_fin, along_fin_full};
-pub use planar::{along_channel, long_channel_column, AlongChannel, DopingProfile};
+pub use planar::{
+    along_channel, along_channel_extruded, long_channel_column, AlongChannel, DopingProfile,
+};
 
 /// Electrode numbers.
 pub const GATE: usize = 0;
