@@ -1255,6 +1255,7 @@ pub fn scenario_from_table(root: &toml::Table) -> Result<Scenario, DeviceError> 
         bias,
         extraction,
         mesh,
+        fin_method: FinMethod::default(),
         warnings,
     };
     check_size(&scenario)?;

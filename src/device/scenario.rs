@@ -228,6 +228,31 @@ pub struct MeshSettings {
     pub max_nodes: f64,
 }
 
+/// How fins and wires are evaluated (planar devices are always solved in 2D).
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Default)]
+pub enum FinMethod {
+    /// The 3D solve along the channel ("3d-solve", the default).
+    #[default]
+    Solve3d,
+    /// The cross-section and the Liu et al. 1993 theory alone ("theory"): for very large sweeps.
+    Theory,
+}
+
+impl FinMethod {
+    pub fn name(&self) -> &'static str {
+        match self {
+            FinMethod::Solve3d => "3d-solve",
+            FinMethod::Theory => "theory",
+        }
+    }
+
+    pub fn from_name(s: &str) -> Option<Self> {
+        [FinMethod::Solve3d, FinMethod::Theory]
+            .into_iter()
+            .find(|m| m.name() == s)
+    }
+}
+
 /// A validated device, ready for the solver.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct Scenario {
@@ -242,6 +267,10 @@ pub struct Scenario {
     pub bias: Bias,
     pub extraction: Extraction,
     pub mesh: MeshSettings,
+    /// Fins and wires: 3D solve or theory alone (set by the caller: the
+    /// `--fins` option or the plan key `fins`; not a device-file key).
+    #[serde(skip)]
+    pub fin_method: FinMethod,
     /// Warnings raised during validation (keys without effect, etc.).
     pub warnings: Vec<String>,
 }

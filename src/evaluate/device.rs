@@ -1,18 +1,20 @@
 //! One whole device at one gate length: planar devices get the 2D
-//! along-channel solve at both drain biases; fins and wires the theory from
-//! their cross-section. Both come out as one [`DeviceReport`], built in one
+//! along-channel solve at both drain biases; fins and wires the 3D solve
+//! along the channel (or, chosen explicitly for very large sweeps, the theory
+//! from their cross-section alone). Both come out as one [`DeviceReport`], built in one
 //! place ([`build_report`]) with the Liu et al. (IEEE TED 40(1), 86, 1993)
 //! theory beside the figures.
 
 use super::capacitance::{self, device_capacitance, CapacitanceFigures};
 use super::reference::{Reference, ReferenceError};
 use super::report::{DeviceReport, Method, CAUTION};
+use crate::device::FinMethod;
 use crate::device::Scenario;
 use crate::extract::electrical_length::L_ELEC_WARN_NM;
 use crate::extract::{self, ascending, ramp_figures, Barrier};
 use crate::progress::{Observer, SolveKind};
 use crate::solve::{DeviceSolver, GateRamp, PoissonSolver, SolveError};
-use crate::structure::{along_channel, AlongChannel, DopingProfile};
+use crate::structure::{along_channel, along_fin, AlongChannel, DopingProfile};
 use crate::theory::closed_form;
 
 /// Failures that stop a whole evaluation (a single bias point failing does not).
@@ -43,6 +45,8 @@ pub struct Evaluation {
     pub report: DeviceReport,
     /// The 2D solution (planar devices only).
     pub solution: Option<DeviceSolution>,
+    /// The 3D solution (fins and wires solved in 3D; its structure is 3D).
+    pub solution_3d: Option<DeviceSolution>,
 }
 
 /// What differs between a solved and a theory device report; everything
@@ -82,11 +86,20 @@ pub fn evaluate(
         Ok(Evaluation {
             report: sol.report.clone(),
             solution: Some(sol),
+            solution_3d: None,
+        })
+    } else if s.fin_method == FinMethod::Solve3d {
+        let sol = solve_fin_3d(s, reference, observer)?;
+        Ok(Evaluation {
+            report: sol.report.clone(),
+            solution: None,
+            solution_3d: Some(sol),
         })
     } else {
         Ok(Evaluation {
             report: fin_report(s, reference),
             solution: None,
+            solution_3d: None,
         })
     }
 }
@@ -108,7 +121,29 @@ pub fn solve_planar(
     reference: &Reference,
     observer: &dyn Observer,
 ) -> Result<DeviceSolution, EvaluateError> {
-    let structure = along_channel(s);
+    solve_structure(s, reference, observer, along_channel(s), Method::TwoDSolve)
+}
+
+/// The 3D solve of a fin or wire along the channel (half domain): both drain
+/// ramps and every figure, with the cross-section's Pao-Sah V_t,long and the
+/// Liu et al. theory beside them.
+pub fn solve_fin_3d(
+    s: &Scenario,
+    reference: &Reference,
+    observer: &dyn Observer,
+) -> Result<DeviceSolution, EvaluateError> {
+    solve_structure(s, reference, observer, along_fin(s), Method::ThreeDSolve)
+}
+
+/// One solve path for 2D sections and 3D fins: both drain ramps (on two
+/// threads), the figures and the leakiest path.
+fn solve_structure(
+    s: &Scenario,
+    reference: &Reference,
+    observer: &dyn Observer,
+    structure: AlongChannel,
+    method: Method,
+) -> Result<DeviceSolution, EvaluateError> {
     let solver = PoissonSolver::new(&structure.problem)?;
     let unknowns = solver.unknowns();
     let solver2 = solver.clone();
@@ -161,7 +196,7 @@ pub fn solve_planar(
         s,
         reference,
         Figures {
-            method: Method::TwoDSolve,
+            method,
             capacitance,
             vt_lin_v: lin_f.map(|f| f.0),
             vt_sat_v: sat_f.map(|f| f.0),
@@ -178,8 +213,14 @@ pub fn solve_planar(
             vgs_v: vgs,
             id_lin,
             id_sat,
-            current_unit: "A/um (drain current per um of gate width; negative for p-channel)"
-                .into(),
+            current_unit: match method {
+                Method::ThreeDSolve => format!(
+                    "A/um (drain current per um of device width W = {:.2} nm, {}; negative for p-channel)",
+                    p.current_width_nm,
+                    crate::structure::WIDTH_DEFINITION
+                ),
+                _ => "A/um (drain current per um of gate width; negative for p-channel)".into(),
+            },
             problems,
             warnings: s.warnings.clone(),
         },
@@ -404,7 +445,7 @@ fn build_report(s: &Scenario, reference: &Reference, f: Figures) -> DeviceReport
         l.ss_mv_per_dec * (g(sat) / g(lin)).log10() / (sat - lin).abs()
     });
     let dibl = match f.method {
-        Method::TwoDSolve => f
+        Method::TwoDSolve | Method::ThreeDSolve => f
             .vt_lin_v
             .zip(f.vt_sat_v)
             .map(|(a, b)| extract::dibl(a, b, lin, sat)),
@@ -441,7 +482,7 @@ fn build_report(s: &Scenario, reference: &Reference, f: Figures) -> DeviceReport
         ss_sat_mv_per_dec: f.ss_sat_mv_per_dec,
         dibl_mv_per_v: dibl,
         dibl_long_floor_mv_per_v: match f.method {
-            Method::TwoDSolve => floor,
+            Method::TwoDSolve | Method::ThreeDSolve => floor,
             Method::Theory => None,
         },
         vt_long_v: long.map(|l| l.vt_v),
@@ -454,6 +495,14 @@ fn build_report(s: &Scenario, reference: &Reference, f: Figures) -> DeviceReport
             .zip(f.barrier_sat)
             .map(|(a, b)| 1000.0 * (a.height_ev - b.height_ev)),
         leakiest_depth_nm: f.barrier_sat.map(|b| b.depth_nm),
+        leakiest_y_nm: f
+            .barrier_sat
+            .filter(|_| f.method == Method::ThreeDSolve)
+            .map(|b| b.y_nm),
+        leakiest_z_nm: f
+            .barrier_sat
+            .filter(|_| f.method == Method::ThreeDSolve)
+            .map(|b| b.z_nm),
         natural_length_nm: closed.map(|c| c.1),
         natural_length_formula: closed.map(|c| c.0.to_string()),
         lambda_numeric_nm,

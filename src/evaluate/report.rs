@@ -71,6 +71,9 @@ impl Serialize for Status {
 pub enum Method {
     /// The 2D along-channel nonlinear Poisson solve at both drain biases ("2d-solve").
     TwoDSolve,
+    /// Fins and wires: the 3D nonlinear Poisson solve along the channel at
+    /// both drain biases ("3d-solve").
+    ThreeDSolve,
     /// Fins and wires: the long-channel cross-section solve with the Liu et
     /// al. 1993 model from the numeric natural length ("theory").
     Theory,
@@ -80,6 +83,7 @@ impl Method {
     pub fn name(&self) -> &'static str {
         match self {
             Method::TwoDSolve => "2d-solve",
+            Method::ThreeDSolve => "3d-solve",
             Method::Theory => "theory",
         }
     }
@@ -88,6 +92,9 @@ impl Method {
     pub fn describe(&self) -> &'static str {
         match self {
             Method::TwoDSolve => "2D along-channel nonlinear Poisson solve at both drain biases",
+            Method::ThreeDSolve => {
+                "3D nonlinear Poisson solve of the fin or wire along the channel at both drain biases"
+            }
             Method::Theory => {
                 "long-channel cross-section solve; short-channel figures are THEORY \
                  (Liu et al. 1993 with the numeric natural length)"
@@ -145,6 +152,10 @@ pub struct DeviceReport {
     #[serde(rename = "barrier_lowering_meV")]
     pub barrier_lowering_mev: Option<f64>,
     pub leakiest_depth_nm: Option<f64>,
+    /// 3D fins and wires: the leakiest line's position across the fin (y, 0 at
+    /// its centre) and below the top silicon surface (z), nm, at V_DS,sat.
+    pub leakiest_y_nm: Option<f64>,
+    pub leakiest_z_nm: Option<f64>,
     pub natural_length_nm: Option<f64>,
     pub natural_length_formula: Option<String>,
     /// Numeric natural length of the stack (planar) or cross-section (fins), nm.

@@ -54,9 +54,58 @@ struct Pattern {
     diag_pos: Vec<usize>,
 }
 
+/// Geometric nested dissection of the unknowns of a tensor-product mesh
+/// (George, SIAM J. Numer. Anal. 10(2), 345, 1973): the index box is split
+/// at the middle plane of its longest side, both halves are ordered first and
+/// the separating plane last, recursively. Returns (fwd, inv) with
+/// `fwd[new] = old` and `inv[old] = new` over unknown numbers.
+fn nested_dissection(p: &Problem, node_of: &[usize]) -> (Vec<usize>, Vec<usize>) {
+    let mut unknown_of = vec![NONE; p.node_count()];
+    for (u, &k) in node_of.iter().enumerate() {
+        unknown_of[k] = u;
+    }
+    let mut fwd = Vec::with_capacity(node_of.len());
+    // Explicit stack of boxes [lo, hi) in (i, j, k); a `true` flag emits the box as is.
+    let mut stack = vec![([0, 0, 0], [p.nx, p.ny, p.nz], false)];
+    while let Some((lo, hi, emit)) = stack.pop() {
+        let ext = [hi[0] - lo[0], hi[1] - lo[1], hi[2] - lo[2]];
+        if ext.contains(&0) {
+            continue;
+        }
+        if emit || ext.iter().product::<usize>() <= 64 {
+            for k in lo[2]..hi[2] {
+                for j in lo[1]..hi[1] {
+                    for i in lo[0]..hi[0] {
+                        let u = unknown_of[p.index(i, j, k)];
+                        if u != NONE {
+                            fwd.push(u);
+                        }
+                    }
+                }
+            }
+            continue;
+        }
+        let axis = (0..3).max_by_key(|&a| ext[a]).unwrap_or(0);
+        let mid = lo[axis] + ext[axis] / 2;
+        let (mut left_hi, mut right_lo, mut sep_lo, mut sep_hi) = (hi, lo, lo, hi);
+        left_hi[axis] = mid;
+        right_lo[axis] = mid + 1;
+        sep_lo[axis] = mid;
+        sep_hi[axis] = mid + 1;
+        // Popped in reverse: left, right, then the separator.
+        stack.push((sep_lo, sep_hi, true));
+        stack.push((right_lo, hi, false));
+        stack.push((lo, left_hi, false));
+    }
+    let mut inv = vec![0; fwd.len()];
+    for (new, &old) in fwd.iter().enumerate() {
+        inv[old] = new;
+    }
+    (fwd, inv)
+}
+
 impl PoissonSolver {
     fn pattern(p: &Problem) -> (Pattern, Vec<f64>) {
-        let nx = p.nx;
         let mut unknown_of = vec![NONE; p.node_count()];
         let mut node_of = Vec::new();
         for (k, kind) in p.nodes.iter().enumerate() {
@@ -72,39 +121,24 @@ impl PoissonSolver {
         let mut diag_pos = Vec::with_capacity(n);
         col_ptr.push(0);
         for &k in &node_of {
-            let (i, j) = (k % nx, k / nx);
-            // Neighbours in increasing node (hence unknown) order.
-            let push = |nb: usize, c: f64, row_idx: &mut Vec<usize>, values: &mut Vec<f64>| {
-                let u = unknown_of[nb];
+            // Neighbours in increasing node (hence unknown) order: z-, y-, x-, x+, y+, z+.
+            let nb = p.neighbours(k);
+            for (m, c) in [nb[4], nb[2], nb[0]].into_iter().flatten() {
+                let u = unknown_of[m];
                 if u != NONE {
                     row_idx.push(u);
                     values.push(-c);
                 }
-            };
-            if j > 0 {
-                push(
-                    k - nx,
-                    p.coef_y[i + (j - 1) * nx],
-                    &mut row_idx,
-                    &mut values,
-                );
-            }
-            if i > 0 {
-                push(
-                    k - 1,
-                    p.coef_x[i - 1 + j * (nx - 1)],
-                    &mut row_idx,
-                    &mut values,
-                );
             }
             diag_pos.push(row_idx.len());
             row_idx.push(unknown_of[k]);
             values.push(0.0);
-            if i + 1 < nx {
-                push(k + 1, p.coef_x[i + j * (nx - 1)], &mut row_idx, &mut values);
-            }
-            if j + 1 < p.ny {
-                push(k + nx, p.coef_y[i + j * nx], &mut row_idx, &mut values);
+            for (m, c) in [nb[1], nb[3], nb[5]].into_iter().flatten() {
+                let u = unknown_of[m];
+                if u != NONE {
+                    row_idx.push(u);
+                    values.push(-c);
+                }
             }
             col_ptr.push(row_idx.len());
         }
@@ -120,15 +154,28 @@ impl PoissonSolver {
         )
     }
 
-    /// Orders and analyses the Jacobian's pattern for this mesh (done once).
+    /// Orders and analyses the Jacobian's pattern for this mesh (done once):
+    /// approximate minimum degree in 2D, geometric nested dissection on the
+    /// tensor mesh in 3D (less fill, faster numeric factorisation: measured in
+    /// `benches/fin3d.rs`).
     pub fn new(p: &Problem) -> Result<Self, SolveError> {
         let (pat, values) = Self::pattern(p);
         let sym =
             SymbolicSparseColMatRef::new_checked(pat.n, pat.n, &pat.col_ptr, None, &pat.row_idx);
+        let (fwd, inv) = if p.is_3d() {
+            nested_dissection(p, &pat.node_of)
+        } else {
+            (Vec::new(), Vec::new())
+        };
+        let ordering = if p.is_3d() {
+            SymmetricOrdering::Custom(faer::perm::PermRef::new_checked(&fwd, &inv, pat.n))
+        } else {
+            SymmetricOrdering::Amd
+        };
         let symbolic = factorize_symbolic_cholesky(
             sym,
             Side::Lower,
-            SymmetricOrdering::Amd,
+            ordering,
             CholeskySymbolicParams::default(),
         )
         .map_err(|e| SolveError::Symbolic(format!("{e:?}")))?;
@@ -176,7 +223,7 @@ impl PoissonSolver {
         for u in 0..pat.n {
             let k = pat.node_of[u];
             let i = k % nx;
-            let (f, d) = p.residual(psi, i, k / nx, qf.phi_n[i], qf.phi_p[i]);
+            let (f, d) = p.residual(psi, k, qf.phi_n[i], qf.phi_p[i]);
             self.rhs[u] = f;
             self.values[pat.diag_pos[u]] = d;
             worst = worst.max((f / d).abs());
@@ -242,10 +289,12 @@ impl PoissonSolver {
             let d = self.rhs[u];
             let k = pat.node_of[u];
             if !d.is_finite() {
+                let (x_nm, y_nm, z_nm) = p.coords_nm(k);
                 return Err(SolveError::NonFinite {
                     node: k,
-                    x_nm: p.x.nodes[k % p.nx],
-                    y_nm: p.y.nodes[k / p.nx],
+                    x_nm,
+                    y_nm,
+                    z_nm,
                 });
             }
             max_update = max_update.max(d.abs());

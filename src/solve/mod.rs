@@ -34,8 +34,13 @@ pub enum SolveError {
     Factorisation(String),
     #[error("symbolic analysis failed: {0}")]
     Symbolic(String),
-    #[error("a non-finite potential appeared at node {node} (x = {x_nm:.3} nm, y = {y_nm:.3} nm)")]
-    NonFinite { node: usize, x_nm: f64, y_nm: f64 },
+    #[error("a non-finite potential appeared at node {node} (x = {x_nm:.3} nm, y = {y_nm:.3} nm, z = {z_nm:.3} nm)")]
+    NonFinite {
+        node: usize,
+        x_nm: f64,
+        y_nm: f64,
+        z_nm: f64,
+    },
 }
 
 /// Electron and hole quasi-Fermi levels (V), one value per mesh column (x index).

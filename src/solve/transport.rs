@@ -83,8 +83,8 @@ pub fn quasi_fermi(
             -sign * thermal_v * arg.ln()
         })
         .collect();
-    // A/nm of width -> A/um.
-    let i_per_nm = Q_C * mobility_nm2 * thermal_v * (1.0 - e) / total;
+    // A/nm of width -> A/um (a 3D problem's total current over its width W).
+    let i_per_nm = Q_C * mobility_nm2 * thermal_v * (1.0 - e) / total / p.current_width_nm;
     Transport {
         phi,
         current_a_per_um: sign * i_per_nm * 1e3,

@@ -6,12 +6,17 @@
 //! | along-channel section of a planar device, its doping | [`planar`] | [`planar::along_channel`] |
 //! | 1D long-channel column at mid-channel | [`planar`] | [`planar::long_channel_column`] |
 //! | fin or wire cross-section perpendicular to the channel | [`fin`] | [`fin::cross_section`] |
+//! | fin or wire in 3D along the channel (half domain) | [`fin3d`] | [`fin3d::along_fin`] |
 
 pub mod fin;
+pub mod fin3d;
 pub mod planar;
 
 pub use fin::{cross_section, CrossSection, CrossSectionError, Region, WIDTH_DEFINITION};
-pub use planar::{along_channel, long_channel_column, AlongChannel, DopingProfile, Plugs};
+pub use fin3d::{along_fin, along_fin_full};
+pub use planar::{
+    along_channel, along_channel_extruded, long_channel_column, AlongChannel, DopingProfile, Plugs,
+};
 
 /// Electrode numbers.
 pub const GATE: usize = 0;

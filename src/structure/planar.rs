@@ -300,6 +300,21 @@ fn planar_material(s: &Scenario, x: f64, y: f64, gate: (f64, f64)) -> CellKind {
 
 /// Builds the along-channel structure of a bulk, thin-body or double-gate device.
 pub fn along_channel(s: &Scenario) -> AlongChannel {
+    along_channel_in(s, Line { nodes: vec![0.0] })
+}
+
+/// The along-channel section extruded through the 3D path over `depth_nm`
+/// in `layers` uniform layers, with zero-flux side faces: every layer
+/// reproduces the 2D solve (the extrusion check). Currents are per unit of
+/// that depth, as the 2D section's.
+pub fn along_channel_extruded(s: &Scenario, depth_nm: f64, layers: usize) -> AlongChannel {
+    let mut ac = along_channel_in(s, Line::uniform(0.0, depth_nm, layers));
+    ac.problem.current_width_nm = depth_nm;
+    ac
+}
+
+/// The section on the third-direction line `z` (a single node: the 2D section).
+fn along_channel_in(s: &Scenario, z: Line) -> AlongChannel {
     assert!(
         s.architecture.is_planar(),
         "along_channel needs a planar architecture"
@@ -332,16 +347,17 @@ pub fn along_channel(s: &Scenario) -> AlongChannel {
     let well = g.junction_depth_nm;
     let bulk = s.architecture == Architecture::Bulk;
     let gate = (sd, sd + l);
-    let problem = Problem::new(
+    let problem = Problem::new_3d(
         x,
         y,
+        z,
         silicon,
-        |xc, yc| {
+        |xc, yc, _| {
             plugs
                 .and_then(|p| p.material_at(xc, yc))
                 .unwrap_or_else(|| planar_material(s, xc, yc, gate))
         },
-        |i, j| {
+        |i, j, _| {
             let faces = plugs.is_none(); // with plugs the outer faces are symmetry planes
             if bulk && j == ny - 1 {
                 Some(SUBSTRATE)
@@ -353,7 +369,7 @@ pub fn along_channel(s: &Scenario) -> AlongChannel {
                 None
             }
         },
-        |x0, x1, y0, y1| doping.net_avg(x0, x1, y0, y1),
+        |x0, x1, y0, y1, _, _| doping.net_avg(x0, x1, y0, y1),
     );
     let mut problem = problem;
     let mirror_plane_nm = mirror_plane(s);

@@ -1,0 +1,362 @@
+//! Fins and wires solved in 3D: the cross-section extruded along the channel
+//! with source and drain (DEVICE-FORMAT.md, "Fins and wires solved in 3D").
+//!
+//! Coordinates: x along the channel from the source contact (0) to the drain
+//! contact (2 S + L_g); y across the fin, centred on it (fin from -W/2 to
+//! W/2); z downward from the top silicon surface (fin from 0 to H), nm.
+//! Electrode [`GATE`] is the gate, [`BACK_PLANE`] the plane under the buried
+//! oxide; contacts [`SOURCE`] and [`DRAIN`] are the fin's silicon end faces.
+//!
+//! The structure is mirror-symmetric about y = 0: [`along_fin`] meshes the
+//! half y >= 0 (the plane y = 0 is its first y line, zero normal field) and
+//! counts the other half through [`Problem::symmetry_factor`];
+//! [`along_fin_full`] meshes the whole width (for the symmetry check).
+//!
+//! Mesh: rectilinear and graded as the 2D sections (hard lines at every
+//! material interface, the junctions and the gate edges; fine at every
+//! silicon/dielectric interface, gate edge and junction; coarse in the buried
+//! oxide, spacer and metal), with its own steps ([`FIN3D_FINE_INTERFACE_NM`],
+//! [`FIN3D_FINE_JUNCTION_NM`], the largest step [`FIN3D_STEP_FACTOR`] times
+//! `mesh.max_step_nm`), all divided by `mesh.refinement`. docs/fins-3d.md gives the choices.
+
+use super::planar::DopingProfile;
+use super::{lookup, AlongChannel, BACK_PLANE, DRAIN, GATE, SOURCE};
+use crate::device::{Architecture, Scenario};
+use crate::discretize::{CellKind, Problem};
+use crate::mesh::{graded_line, Line};
+use crate::physics::Silicon;
+
+/// Finest step at a silicon/dielectric interface of a 3D fin, nm (coarser than
+/// the 2D sections' 0.02 nm: subthreshold electrostatics of an undoped fin
+/// vary on the scale of the body; checked by the mesh-convergence test).
+pub const FIN3D_FINE_INTERFACE_NM: f64 = 0.3;
+/// Finest step at the gate edges and junctions of a 3D fin, nm.
+pub const FIN3D_FINE_JUNCTION_NM: f64 = 0.5;
+/// The 3D mesh's largest step is this times `mesh.max_step_nm`.
+pub const FIN3D_STEP_FACTOR: f64 = 3.0;
+/// Thickness of the metal slab standing for the back plane under the buried oxide, nm.
+const BACK_PLANE_SLAB_NM: f64 = 1.0;
+
+/// The parts of the 3D geometry that the mesh and materials need, nm.
+struct Geometry3d {
+    arch: Architecture,
+    half_w: f64,
+    h: f64,
+    /// Cap thickness (capped fin), else 0.
+    tc: f64,
+    /// Summed stack thicknesses, from the channel outward.
+    cum: Vec<f64>,
+    eps: Vec<f64>,
+    t: f64,
+    gate_height: f64,
+    y_edge: f64,
+    z_top: f64,
+    gate: (f64, f64),
+    total_x: f64,
+}
+
+impl Geometry3d {
+    fn of(s: &Scenario) -> Self {
+        let g = &s.geometry;
+        let arch = s.architecture;
+        let gaa = arch == Architecture::GateAllAround;
+        let half_w = 0.5 * g.body_thickness_nm;
+        let t = s.stack_thickness_nm();
+        let tc = if arch == Architecture::CappedFin {
+            g.cap_thickness_nm
+        } else {
+            0.0
+        };
+        let cum = s
+            .stack
+            .iter()
+            .scan(0.0, |acc, l| {
+                *acc += l.thickness_nm;
+                Some(*acc)
+            })
+            .collect();
+        let sd = g.source_drain_length_nm;
+        let l = g.gate_length_nm;
+        Geometry3d {
+            arch,
+            half_w,
+            h: g.fin_height_nm,
+            tc,
+            cum,
+            eps: s.stack.iter().map(|l| l.eps_r).collect(),
+            t,
+            gate_height: g.gate_height_nm,
+            y_edge: if gaa {
+                half_w + t + g.gate_height_nm
+            } else {
+                0.5 * g.fin_pitch_nm
+            },
+            z_top: -(tc + t + g.gate_height_nm),
+            gate: (sd, sd + l),
+            total_x: 2.0 * sd + l,
+        }
+    }
+
+    fn gaa(&self) -> bool {
+        self.arch == Architecture::GateAllAround
+    }
+
+    /// Bottom of the domain, nm.
+    fn z_bottom(&self, s: &Scenario) -> f64 {
+        if self.gaa() {
+            self.h + self.t + self.gate_height
+        } else {
+            self.h + s.geometry.box_thickness_nm + BACK_PLANE_SLAB_NM
+        }
+    }
+
+    /// Material at (x, y, z) (a cell centre).
+    fn material(&self, s: &Scenario, x: f64, y: f64, z: f64) -> CellKind {
+        let g = &s.geometry;
+        if !self.gaa() && z > self.h {
+            return if z < self.h + g.box_thickness_nm {
+                CellKind::Dielectric(g.box_eps)
+            } else {
+                CellKind::Metal(BACK_PLANE)
+            };
+        }
+        let dy = y.abs() - self.half_w;
+        let dz_top = -self.tc - z;
+        let dz_bottom = if self.gaa() {
+            z - self.h
+        } else {
+            f64::NEG_INFINITY
+        };
+        if dy < 0.0 && dz_top < 0.0 && dz_bottom < 0.0 {
+            return if z < 0.0 {
+                CellKind::Dielectric(g.cap_eps)
+            } else {
+                CellKind::Semi
+            };
+        }
+        let under_gate = x > self.gate.0 && x < self.gate.1;
+        if !under_gate {
+            return CellKind::Dielectric(g.spacer_eps);
+        }
+        let d = dy.max(dz_top).max(dz_bottom);
+        match self.cum.iter().position(|&c| d < c) {
+            Some(k) => CellKind::Dielectric(self.eps[k]),
+            None => CellKind::Metal(GATE),
+        }
+    }
+}
+
+/// Mesh lines along the channel: the planar device's hard points (contacts,
+/// gate edges, junctions), refined at the gate edges and junctions.
+fn x_line(s: &Scenario, geo: &Geometry3d, doping: &DopingProfile, max_step: f64) -> Line {
+    let r = s.mesh.refinement;
+    let (g0, g1) = geo.gate;
+    let mut hard = vec![0.0, g0, g1, geo.total_x];
+    let mut fine = vec![(g0, FIN3D_FINE_JUNCTION_NM), (g1, FIN3D_FINE_JUNCTION_NM)];
+    for e in [doping.source_edge, doping.drain_edge] {
+        if e > 1e-6 && e < geo.total_x - 1e-6 {
+            hard.push(e);
+            fine.push((e, FIN3D_FINE_JUNCTION_NM));
+        }
+    }
+    graded_line(&hard, |p| lookup(&fine, p), max_step, r, 2)
+}
+
+/// Mesh lines across the fin, y >= 0 (the half domain).
+fn y_half_line(s: &Scenario, geo: &Geometry3d, max_step: f64) -> Line {
+    let r = s.mesh.refinement;
+    let hw = geo.half_w;
+    let mut hard = vec![0.0, hw, geo.y_edge];
+    let mut fine = vec![(hw, FIN3D_FINE_INTERFACE_NM)];
+    for &c in &geo.cum {
+        if hw + c < geo.y_edge - 1e-9 {
+            hard.push(hw + c);
+        }
+    }
+    if hw + geo.t < geo.y_edge - 1e-9 {
+        fine.push((hw + geo.t, FIN3D_FINE_JUNCTION_NM));
+    }
+    graded_line(&hard, |p| lookup(&fine, p), max_step, r, 2)
+}
+
+/// Mesh lines in depth, from the top face down.
+fn z_line(s: &Scenario, geo: &Geometry3d, max_step: f64) -> Line {
+    let r = s.mesh.refinement;
+    let core_top = -geo.tc;
+    let mut hard = vec![geo.z_top, core_top, 0.0, geo.h, geo.z_bottom(s)];
+    let mut fine = vec![
+        (0.0, FIN3D_FINE_INTERFACE_NM),
+        (geo.h, FIN3D_FINE_INTERFACE_NM),
+        (core_top - geo.t, FIN3D_FINE_JUNCTION_NM),
+    ];
+    if geo.tc > 0.0 {
+        fine.push((core_top, FIN3D_FINE_INTERFACE_NM));
+    }
+    for &c in &geo.cum {
+        hard.push(core_top - c);
+    }
+    if geo.gaa() {
+        for &c in &geo.cum {
+            hard.push(geo.h + c);
+        }
+        fine.push((geo.h + geo.t, FIN3D_FINE_JUNCTION_NM));
+    } else {
+        hard.push(geo.h + s.geometry.box_thickness_nm);
+    }
+    graded_line(&hard, |p| lookup(&fine, p), max_step, r, 2)
+}
+
+/// Device width W per fin or wire for currents, nm: the gated silicon
+/// perimeter (tri-gate 2 H + W, gate-all-around 2 (H + W), capped fin 2 H;
+/// [`super::WIDTH_DEFINITION`]).
+pub fn fin_width_nm(s: &Scenario) -> f64 {
+    let g = &s.geometry;
+    let (w, h) = (g.body_thickness_nm, g.fin_height_nm);
+    match s.architecture {
+        Architecture::GateAllAround => 2.0 * (h + w),
+        Architecture::CappedFin => 2.0 * h,
+        _ => 2.0 * h + w,
+    }
+}
+
+/// The largest step of the 3D mesh before refinement, nm.
+pub fn fin3d_max_step_nm(s: &Scenario) -> f64 {
+    FIN3D_STEP_FACTOR * s.mesh.max_step_nm
+}
+
+/// Builds the 3D structure of a tri-gate, gate-all-around or capped-fin
+/// device on the half domain y >= 0 (mirror plane y = 0).
+pub fn along_fin(s: &Scenario) -> AlongChannel {
+    build(s, true)
+}
+
+/// [`along_fin`] on the full width -y_edge <= y <= y_edge (no mirror).
+pub fn along_fin_full(s: &Scenario) -> AlongChannel {
+    build(s, false)
+}
+
+fn build(s: &Scenario, half: bool) -> AlongChannel {
+    assert!(
+        s.architecture.is_fin(),
+        "along_fin needs a fin or wire architecture"
+    );
+    let geo = Geometry3d::of(s);
+    let doping = DopingProfile::of(s);
+    let max_step = fin3d_max_step_nm(s);
+    let x = x_line(s, &geo, &doping, max_step);
+    let yh = y_half_line(s, &geo, max_step);
+    let y = if half {
+        yh
+    } else {
+        let mut nodes: Vec<f64> = yh.nodes[1..].iter().rev().map(|v| -v).collect();
+        nodes.extend_from_slice(&yh.nodes);
+        Line { nodes }
+    };
+    let z = z_line(s, &geo, max_step);
+    let nx = x.len();
+    let zs = z.nodes.clone();
+    let h = geo.h;
+    let mut problem = Problem::new_3d(
+        x,
+        y,
+        z,
+        Silicon::at(s.temperature_k),
+        |xc, yc, zc| geo.material(s, xc, yc, zc),
+        |i, _, k| {
+            // Ohmic contacts: the fin's silicon end faces (edge nodes included).
+            if zs[k] > h + 1e-9 {
+                None
+            } else if i == 0 {
+                Some(SOURCE)
+            } else if i == nx - 1 {
+                Some(DRAIN)
+            } else {
+                None
+            }
+        },
+        |x0, x1, _, _, _, _| doping.net_avg(x0, x1, 0.0, 0.0),
+    );
+    if half {
+        problem.symmetry_factor = 2.0;
+    }
+    problem.current_width_nm = fin_width_nm(s);
+    AlongChannel {
+        problem,
+        gate_start_nm: geo.gate.0,
+        gate_end_nm: geo.gate.1,
+        silicon_bottom_nm: h,
+        doping,
+        mirror_plane_nm: None,
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::device::parse_device;
+    use crate::discretize::NodeKind;
+
+    fn fin(arch: &str) -> Scenario {
+        parse_device(&format!(
+            "name = \"f\"\narchitecture = \"{arch}\"\n[geometry]\ngate_length_nm = 20\nbody_thickness_nm = 8\n\
+             fin_height_nm = 20\nsource_drain_length_nm = 10\n[[gate_stack]]\nmaterial = \"SiO2\"\nthickness_nm = 1.0\n\
+             [gate]\nworkfunction_eV = 4.6\n[mesh]\nmax_step_nm = 1.0\n"
+        ))
+        .unwrap()
+    }
+
+    /// Volume of the cells of one kind, nm^3 (half domain).
+    fn volume(p: &Problem, pred: impl Fn(CellKind) -> bool) -> f64 {
+        let (hx, hy, hz) = (p.x.steps(), p.y.steps(), p.z.steps());
+        let mut v = 0.0;
+        for cz in 0..p.nz - 1 {
+            for cy in 0..p.ny - 1 {
+                for cx in 0..p.nx - 1 {
+                    if pred(p.cell_3d(cx, cy, cz)) {
+                        v += hx[cx] * hy[cy] * hz[cz];
+                    }
+                }
+            }
+        }
+        v
+    }
+
+    #[test]
+    fn tri_gate_volumes_follow_the_contract() {
+        let s = fin("tri-gate");
+        let st = along_fin(&s);
+        let p = &st.problem;
+        // Silicon: half the fin (4 x 20) over the whole length 40 nm.
+        let si = volume(p, |c| c == CellKind::Semi);
+        assert!((si - 4.0 * 20.0 * 40.0).abs() < 1e-6, "silicon {si}");
+        let semi: f64 = p.semi_area.iter().sum();
+        assert!((semi - si).abs() < 1e-6);
+        // Gate stack (eps 3.9 under the gate only): half of top + side + corner, times L.
+        let stack = volume(p, |c| c == CellKind::Dielectric(3.9));
+        let box_v = s.geometry.box_thickness_nm * 0.5 * s.geometry.fin_pitch_nm * 40.0;
+        assert!(
+            (stack - box_v - (4.0 + 20.0 + 1.0) * 20.0).abs() < 1e-6,
+            "stack {stack}"
+        );
+        // Contacts only on the silicon end faces.
+        for (n, kind) in p.nodes.iter().enumerate() {
+            if let NodeKind::Contact(_) = kind {
+                let (x, y, z) = p.coords_nm(n);
+                assert!(x == 0.0 || x == 40.0);
+                assert!(y <= 4.0 + 1e-9 && (0.0..=20.0 + 1e-9).contains(&z));
+            }
+        }
+    }
+
+    #[test]
+    fn gate_all_around_wire_is_wrapped_under_the_gate() {
+        let s = fin("gate-all-around");
+        let p = &along_fin(&s).problem;
+        let si = volume(p, |c| c == CellKind::Semi);
+        assert!((si - 4.0 * 20.0 * 40.0).abs() < 1e-6);
+        // Stack: half of the ring of width 1 around 8 x 20, times L.
+        let ring = (10.0 * 22.0 - 8.0 * 20.0) / 2.0 * 20.0;
+        let stack = volume(p, |c| c == CellKind::Dielectric(3.9));
+        assert!((stack - ring).abs() < 1e-6, "stack {stack} vs {ring}");
+    }
+}

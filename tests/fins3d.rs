@@ -1,0 +1,301 @@
+//! Fins and wires solved in 3D: verification of the dimension-generic
+//! discretisation and of the 3D structure (each check names its source).
+//!
+//! Run: `cargo test --release --test fins3d`
+
+use gatehold::device::{parse_device, Polarity, Scenario};
+use gatehold::discretize::{CellKind, NodeKind, Problem};
+use gatehold::extract::ramp_figures;
+use gatehold::mesh::Line;
+use gatehold::physics::{Silicon, EPS_SI, EPS_SIO2, Q_OVER_EPS0_V_NM};
+use gatehold::progress::Silent;
+use gatehold::solve::{DeviceSolver, NewtonOptions, PoissonSolver, QuasiFermi};
+use gatehold::structure::{along_channel, along_channel_extruded, along_fin, along_fin_full};
+
+fn device(text: &str) -> Scenario {
+    parse_device(text).expect("test device")
+}
+
+fn planar(arch: &str) -> Scenario {
+    device(&format!(
+        r#"
+name = "extrude"
+architecture = "{arch}"
+[geometry]
+gate_length_nm = 16
+body_thickness_nm = 6
+box_thickness_nm = 10
+source_drain_length_nm = 10
+gate_height_nm = 5
+[[gate_stack]]
+material = "SiO2"
+thickness_nm = 1.0
+[gate]
+workfunction_eV = 4.6
+[doping]
+channel_cm3 = 1e15
+junction_gradient_nm_per_decade = 2
+[bias]
+vgs_start_V = -0.6
+vgs_stop_V = 0.5
+vgs_step_V = 0.05
+[mesh]
+max_step_nm = 1.0
+"#
+    ))
+}
+
+/// Small tri-gate for the 3D checks (coarse mesh, short source and drain).
+fn small_fin(arch: &str) -> Scenario {
+    device(&format!(
+        r#"
+name = "small-fin"
+architecture = "{arch}"
+[geometry]
+gate_length_nm = 14
+body_thickness_nm = 6
+fin_height_nm = 10
+fin_pitch_nm = 16
+box_thickness_nm = 8
+source_drain_length_nm = 8
+gate_height_nm = 4
+[[gate_stack]]
+material = "SiO2"
+thickness_nm = 1.0
+[gate]
+workfunction_eV = 4.6
+[doping]
+channel_cm3 = 1e16
+[bias]
+vgs_start_V = -0.3
+vgs_stop_V = 0.5
+vgs_step_V = 0.05
+[mesh]
+max_step_nm = 1.0
+"#
+    ))
+}
+
+/// Tight tolerances so that two solves of the same problem agree far below the default 1e-6 V_T.
+fn tight(solver: &mut DeviceSolver) {
+    solver.opts.update_tol_v = 1e-12;
+    solver.opts.residual_tol_v = 1e-12;
+}
+
+#[test]
+fn extruded_planar_sections_reproduce_the_2d_solve() {
+    // Common practice (extrusion invariance of box integration): a planar
+    // section extruded in the third direction with zero-flux side faces has
+    // the same solution on every layer as the 2D section.
+    for arch in ["double-gate", "thin-body"] {
+        let s = planar(arch);
+        let a2 = along_channel(&s);
+        let a3 = along_channel_extruded(&s, 3.0, 2);
+        let (p2, p3) = (&a2.problem, &a3.problem);
+        assert_eq!(p3.nz, 3);
+        let mut d2 = DeviceSolver::new(&s, &a2, PoissonSolver::new(p2).unwrap());
+        let mut d3 = DeviceSolver::new(&s, &a3, PoissonSolver::new(p3).unwrap());
+        tight(&mut d2);
+        tight(&mut d3);
+        let psi2 = d2.initial_state(0.1, 0.3).unwrap();
+        let psi3 = d3.initial_state(0.1, 0.3).unwrap();
+        let n2 = p2.node_count();
+        let mut worst: f64 = 0.0;
+        for k in 0..p3.nz {
+            for n in 0..n2 {
+                worst = worst.max((psi3[n + k * n2] - psi2[n]).abs());
+            }
+        }
+        println!("{arch}: largest |psi_3d - psi_2d| = {worst:.3e} V");
+        assert!(worst < 1e-6, "{arch}: {worst}");
+        let target = s.extraction.current_criterion_a / (s.geometry.gate_length_nm * 1e-3);
+        for vds in [s.bias.vds_lin_v, s.bias.vds_sat_v] {
+            let r2 = d2.gate_ramp(vds, &Silent).unwrap();
+            let r3 = d3.gate_ramp(vds, &Silent).unwrap();
+            let (vt2, _) = ramp_figures(&r2, target).expect("2D figures");
+            let (vt3, _) = ramp_figures(&r3, target).expect("3D figures");
+            println!("{arch} V_DS = {vds}: V_t 2D {vt2:.6} V, extruded {vt3:.6} V");
+            assert!((vt2 - vt3).abs() < 1e-4, "{arch}: {vt2} vs {vt3}");
+        }
+    }
+}
+
+/// Manufactured 3D solution with a dielectric jump (silicon below z0 with a
+/// fixed charge, oxide above, no carriers): u = sin(pi x) sin(pi y) h(z),
+/// h = a z + b z^2 in silicon, h = cosh(sqrt2 pi (1 - z)) in the oxide
+/// (harmonic), u and eps du/dz continuous at z0; u = 0 on the faces x, y in
+/// {0, 1} and z = 0, zero flux on z = 1. Largest nodal error on a smoothly
+/// graded n^3 mesh.
+fn manufactured_error_3d(n: usize) -> f64 {
+    use std::f64::consts::{PI, SQRT_2};
+    let z0 = 0.4;
+    let (es, ed) = (EPS_SI, EPS_SIO2);
+    let k = SQRT_2 * PI;
+    let hh = (k * (1.0 - z0)).cosh();
+    let dd = ed * (-k * (k * (1.0 - z0)).sinh());
+    let bq = (dd / es - hh / z0) / z0;
+    let aq = hh / z0 - bq * z0;
+    let h = |z: f64| {
+        if z <= z0 {
+            aq * z + bq * z * z
+        } else {
+            (k * (1.0 - z)).cosh()
+        }
+    };
+    let exact = |x: f64, y: f64, z: f64| (PI * x).sin() * (PI * y).sin() * h(z);
+    let graded = |a: f64, b: f64, cells: usize| -> Vec<f64> {
+        (0..=cells)
+            .map(|i| {
+                let t = i as f64 / cells as f64;
+                a + (b - a) * (t + 0.06 * (2.0 * PI * t).sin())
+            })
+            .collect()
+    };
+    let padded = |v: Vec<f64>| {
+        let mut out = vec![-0.1];
+        out.extend(v);
+        out.push(1.1);
+        Line { nodes: out }
+    };
+    let x = padded(graded(0.0, 1.0, n));
+    let y = padded(graded(0.0, 1.0, n));
+    let mut zs = graded(0.0, z0, (n * 2) / 5);
+    zs.extend(graded(z0, 1.0, (n * 3) / 5).into_iter().skip(1));
+    // z: metal below 0 (Dirichlet), zero flux on the top face z = 1 (h'(1) = 0).
+    let mut zn = vec![-0.1];
+    zn.extend(zs);
+    let z = Line { nodes: zn };
+    let mut si = Silicon::at(300.0);
+    si.ni = 1e-300; // no carriers: a linear problem with the doping as fixed charge
+    let avg_sin = |a: f64, b: f64| ((PI * a).cos() - (PI * b).cos()) / (PI * (b - a));
+    let rho_avg = |x0: f64, x1: f64, y0: f64, y1: f64, za: f64, zb: f64| {
+        let sxy = avg_sin(x0, x1) * avg_sin(y0, y1);
+        let hz = aq * 0.5 * (za + zb) + bq * (za * za + za * zb + zb * zb) / 3.0;
+        // -div(eps grad u) = -es sin sin (2 b - 2 pi^2 h) in silicon.
+        -es * sxy * (2.0 * bq - 2.0 * PI * PI * hz) / Q_OVER_EPS0_V_NM
+    };
+    let inside = |v: f64| (0.0..=1.0).contains(&v);
+    let p = Problem::new_3d(
+        x,
+        y,
+        z,
+        si,
+        |x, y, z| {
+            if !inside(x) || !inside(y) || z < 0.0 {
+                CellKind::Metal(0)
+            } else if z < z0 {
+                CellKind::Semi
+            } else {
+                CellKind::Dielectric(ed)
+            }
+        },
+        |_, _, _| None,
+        rho_avg,
+    );
+    let mut solver = PoissonSolver::new(&p).unwrap();
+    let mut psi = vec![0.0; p.node_count()];
+    let qf = QuasiFermi::uniform(p.nx, 0.0, 0.0);
+    let rep = solver
+        .solve(
+            &p,
+            &mut psi,
+            &qf,
+            &NewtonOptions::for_thermal_voltage(si.thermal_v),
+        )
+        .unwrap();
+    assert!(rep.converged(), "{rep:?}");
+    let mut err: f64 = 0.0;
+    for (n, kind) in p.nodes.iter().enumerate() {
+        if *kind == NodeKind::Free {
+            let (x, y, z) = p.coords_nm(n);
+            err = err.max((psi[n] - exact(x, y, z)).abs());
+        }
+    }
+    err
+}
+
+#[test]
+fn discretisation_3d_is_second_order_with_a_dielectric_jump() {
+    // Common practice: observed order log2(e_h / e_{h/2}) of a manufactured
+    // solution (Roache, Verification and Validation in Computational Science
+    // and Engineering, 1998).
+    let errs: Vec<f64> = [8, 16, 32]
+        .iter()
+        .map(|&n| manufactured_error_3d(n))
+        .collect();
+    let orders: Vec<f64> = errs.windows(2).map(|w| (w[0] / w[1]).log2()).collect();
+    println!("max errors {errs:?}, observed orders {orders:?}");
+    let last = *orders.last().unwrap();
+    assert!((1.8..=2.2).contains(&last), "observed order {last}");
+}
+
+#[test]
+fn half_and_full_fin_domains_agree() {
+    // Mirror symmetry about y = 0 (DEVICE-FORMAT.md, "Fins and wires solved in
+    // 3D"): the half domain with a zero-field symmetry plane equals the full one.
+    for arch in ["tri-gate", "gate-all-around"] {
+        let s = small_fin(arch);
+        let half = along_fin(&s);
+        let full = along_fin_full(&s);
+        let (ph, pf) = (&half.problem, &full.problem);
+        assert_eq!(pf.ny, 2 * ph.ny - 1);
+        let mut dh = DeviceSolver::new(&s, &half, PoissonSolver::new(ph).unwrap());
+        let mut df = DeviceSolver::new(&s, &full, PoissonSolver::new(pf).unwrap());
+        tight(&mut dh);
+        tight(&mut df);
+        // At V_DS = 0 the quasi-Fermi level is exactly uniform, so both
+        // solves converge to rounding.
+        let psi_h = dh.initial_state(0.2, 0.0).unwrap();
+        let psi_f = df.initial_state(0.2, 0.0).unwrap();
+        let off = ph.ny - 1; // full-domain y index of the half domain's y = 0
+        let mut worst: f64 = 0.0;
+        for k in 0..ph.nz {
+            for j in 0..ph.ny {
+                for i in 0..ph.nx {
+                    let a = psi_h[ph.index(i, j, k)];
+                    let b = psi_f[pf.index(i, off + j, k)];
+                    let c = psi_f[pf.index(i, off - j, k)];
+                    worst = worst.max((a - b).abs()).max((a - c).abs());
+                }
+            }
+        }
+        println!("{arch}: largest |psi_half - psi_full| = {worst:.3e} V");
+        assert!(worst < 1e-9, "{arch}: {worst}");
+    }
+}
+
+fn mirrored(s: &Scenario) -> Scenario {
+    let mut p = s.clone();
+    p.polarity = Polarity::P;
+    let phi_i = Silicon::at(s.temperature_k).phi_i_ev;
+    p.gate.workfunction_ev = 2.0 * phi_i - s.gate.workfunction_ev;
+    p.gate.back_workfunction_ev = 2.0 * phi_i - s.gate.back_workfunction_ev;
+    p.gate.back_bias_v = -s.gate.back_bias_v;
+    let b = &s.bias;
+    p.bias.vds_lin_v = -b.vds_lin_v;
+    p.bias.vds_sat_v = -b.vds_sat_v;
+    p.bias.vgs_start_v = -b.vgs_stop_v;
+    p.bias.vgs_stop_v = -b.vgs_start_v;
+    p.bias.off_vgs_v = -b.off_vgs_v;
+    p
+}
+
+#[test]
+fn p_channel_fin_is_the_mirror_image() {
+    // MODEL.md section 3: a p-channel device is the mirror image of the
+    // n-channel one (donors, work function mirrored about midgap, biases negated).
+    let n = small_fin("tri-gate");
+    let p = mirrored(&n);
+    let (sn, sp) = (along_fin(&n), along_fin(&p));
+    let mut dn = DeviceSolver::new(&n, &sn, PoissonSolver::new(&sn.problem).unwrap());
+    let mut dp = DeviceSolver::new(&p, &sp, PoissonSolver::new(&sp.problem).unwrap());
+    let psi_n = dn.initial_state(0.2, 0.5).unwrap();
+    let psi_p = dp.initial_state(-0.2, -0.5).unwrap();
+    let worst = psi_n
+        .iter()
+        .zip(&psi_p)
+        .map(|(a, b)| (a + b).abs())
+        .fold(0.0, f64::max);
+    println!("largest |psi_n + psi_p| = {worst:.3e} V");
+    assert!(worst < 1e-9, "{worst}");
+}
