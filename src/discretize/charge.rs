@@ -19,7 +19,7 @@ impl Problem {
     pub fn node_charges_c_per_um(&self, psi: &[f64]) -> Vec<f64> {
         let scale = EPS0_F_PER_UM * self.symmetry_factor;
         (0..self.node_count())
-            .map(|k| -scale * self.flux(psi, k % self.nx, k / self.nx).1)
+            .map(|k| -scale * self.flux(psi, k).1)
             .collect()
     }
 }

@@ -137,7 +137,7 @@ pub fn potential_response(
     let mut b: Vec<f64> = solver
         .unknown_nodes()
         .iter()
-        .map(|&k| p.flux(&e, k % p.nx, k / p.nx).1)
+        .map(|&k| p.flux(&e, k).1)
         .collect();
     solver.solve_linearised(p, psi, qf, &mut b)?;
     let mut dpsi = e;

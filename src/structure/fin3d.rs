@@ -287,6 +287,7 @@ fn build(s: &Scenario, half: bool) -> AlongChannel {
         silicon_bottom_nm: h,
         doping,
         mirror_plane_nm: None,
+        plugs: None,
     }
 }
 
