@@ -40,7 +40,11 @@ temperature_K = 300
 gate_length_nm = 25            # gate electrode length L_g
 {body}source_drain_length_nm = 15    # silicon of each of source and drain beyond the gate edges
 gate_height_nm = 20            # gate electrode height above the stack
-spacer = "Si3N4"               # dielectric beside the gate
+spacer = "Si3N4"               # dielectric beside the gate: SiO2 | Si3N4 | SiOC | air, or spacer_permittivity = 3.0
+# contact plugs (planar): any two of these three; then drop source_drain_length_nm
+# gate_pitch_nm = 54           # contacted gate pitch = L_g + 2 spacer + contact
+# spacer_thickness_nm = 8      # gate-to-plug spacer
+# contact_width_nm = 14        # plug width
 
 [[gate_stack]]                 # layers from the channel outward
 material = "SiO2"              # SiO2 | Si3N4 | Al2O3 | HfO2, or relative_permittivity = 22
@@ -69,6 +73,7 @@ off_vgs_V = 0.0                # barrier lowering is reported here
 [extraction]
 current_criterion_A = 1e-7     # V_t where I_D = I_cc W / L_g
 mobility_cm2_per_Vs = 200
+injection_velocity_cm_per_s = 1e7   # on-current estimate (virtual source)
 
 [mesh]
 max_step_nm = 0.5              # no mesh cell larger than this
