@@ -333,6 +333,7 @@ where
     let (main, bar) = root.split_horizontally(root.dim_in_pixel().0.saturating_sub(120));
     let (x0, x1) = (m.x_nm[0], m.x_nm[nx - 1]);
     let (y0, y1) = (m.y_nm[0], m.y_nm[ny - 1]);
+    let (xd, yd) = (decimals(x0, x1), decimals(y0, y1));
     let mut chart = ChartBuilder::on(&main)
         .caption(&f.title, (FONT, 18))
         .margin(12)
@@ -344,6 +345,8 @@ where
         .disable_mesh()
         .x_desc("x along the channel (nm)")
         .y_desc("y below the silicon surface (nm)")
+        .x_label_formatter(&|v| axis_text(*v, xd))
+        .y_label_formatter(&|v| axis_text(*v, yd))
         .label_style((FONT, 14))
         .draw()?;
     let metal = RGBColor(0xb8, 0xb8, 0xb8);
