@@ -369,6 +369,13 @@ fn assert_files_decode(files: &[PathBuf]) {
             Some("svg") => {
                 let t = std::fs::read_to_string(p).unwrap();
                 assert!(t.contains("<svg") && t.trim_end().ends_with("</svg>"));
+                // No tick or label reads "-0" or "-0.0" (plotters writes text
+                // content on a line of its own).
+                let signed_zero = t
+                    .lines()
+                    .map(str::trim)
+                    .find(|l| l.starts_with("-0") && l[1..].chars().all(|c| c == '0' || c == '.'));
+                assert_eq!(signed_zero, None, "{}", p.display());
             }
             other => panic!("unexpected file {other:?}"),
         }
