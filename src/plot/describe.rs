@@ -212,7 +212,10 @@ pub fn criteria_text(c: &Criteria) -> String {
         parts.push(format!("DIBL <= {} mV/V", short_number(x)));
     }
     if let Some(x) = c.ss_max_mv_per_dec {
-        parts.push(format!("SS <= {} mV/dec", short_number(x)));
+        parts.push(format!(
+            "SS (larger of lin, sat) <= {} mV/dec",
+            short_number(x)
+        ));
     }
     if let Some(x) = c.vt_rolloff_max_mv {
         parts.push(format!("|roll-off| <= {} mV", short_number(x)));

@@ -131,10 +131,19 @@ where
     DB::ErrorType: 'static,
 {
     let font = (FONT, 13).into_font().color(&BLACK);
+    let bottom = area.dim_in_pixel().1 as i32 - 30;
     let mut y = 60;
-    for e in entries {
-        draw_glyph(area, &e.glyph, (8, y))?;
+    for (k, e) in entries.iter().enumerate() {
         let lines = wrap(&e.label, 33);
+        if y + 16 * (lines.len() as i32 - 1) > bottom {
+            area.draw(&Text::new(
+                format!("+ {} more entries not shown", entries.len() - k),
+                (8, y - 7),
+                font.clone(),
+            ))?;
+            break;
+        }
+        draw_glyph(area, &e.glyph, (8, y))?;
         for (k, line) in lines.iter().enumerate() {
             area.draw(&Text::new(
                 line.clone(),
