@@ -137,7 +137,7 @@ fn reduced_demo_file_summary_and_plots_agree() {
         "dibl",
         "ss",
         "vt_rolloff",
-        "potential_map_Lg-14nm_double-gate",
+        "potential_map_Lg-18nm_double-gate",
     ] {
         let png = std::fs::read(out.join(format!("{stem}.png"))).unwrap();
         assert!(

@@ -110,7 +110,7 @@ fn col(f: &SweepFile, name: &str) -> Vec<f64> {
 
 #[test]
 fn solved_series_are_solid_and_filled_theory_dashed_hollow_and_labelled() {
-    // Source: issue 10 item 4 (the figure conventions asked for).
+    // Source: docs/hdf5-schema.md, Figures (the figure conventions).
     let f = &solved().1;
     let figs = length_figures(f, &Criteria::default());
     assert_eq!(figs.len(), 3);
@@ -156,7 +156,7 @@ fn solved_series_are_solid_and_filled_theory_dashed_hollow_and_labelled() {
 
 #[test]
 fn a_theory_only_series_is_never_drawn_like_a_solve() {
-    // Source: issue 10 item 4; fins are theory points (`run --json` method "theory").
+    // Source: docs/hdf5-schema.md, Figures; fins are theory points (`run --json` method "theory").
     let f = &theory_only().1;
     let figs = length_figures(f, &Criteria::default());
     assert!(!figs.is_empty());
@@ -176,7 +176,7 @@ fn a_theory_only_series_is_never_drawn_like_a_solve() {
 
 #[test]
 fn failed_points_are_crossed_on_the_axis_and_counted_in_the_legend() {
-    // Source: issue 10 item 4 ("failed points get a visible mark at the axis").
+    // Source: docs/hdf5-schema.md, Figures (points without a value crossed on the axis, counted).
     let mut f = solved().1.clone();
     let lg = col(&f, "gate_length_nm");
     for k in [0, 3] {
@@ -210,7 +210,7 @@ fn failed_points_are_crossed_on_the_axis_and_counted_in_the_legend() {
 
 #[test]
 fn criteria_are_lines_at_their_values_and_the_shortest_compliant_length_is_ringed() {
-    // Source: issue 11 item 1; the shortest compliant length recomputed here
+    // Source: docs/hdf5-schema.md, Figures (criteria); the shortest compliant length recomputed here
     // from the file's columns (the larger SS of lin and sat, |roll-off|).
     let f = &solved().1;
     let c = Criteria {
@@ -272,7 +272,7 @@ fn criteria_are_lines_at_their_values_and_the_shortest_compliant_length_is_ringe
 
 #[test]
 fn per_point_figures_carry_axis_values_vt_and_the_threshold_current() {
-    // Source: issue 10 item 4; the threshold current is I_cc W / L_g (the
+    // Source: docs/hdf5-schema.md, Figures; the threshold current is I_cc W / L_g (the
     // constant-current V_t definition, MODEL.md), I_cc from the base device.
     let f = &solved().1;
     let (points, notes) = point_figures(f);
@@ -306,7 +306,7 @@ fn per_point_figures_carry_axis_values_vt_and_the_threshold_current() {
 
 #[test]
 fn maps_outline_the_stack_the_spacers_the_gate_and_the_contacts() {
-    // Source: issue 10 item 4; regions as built by structure::planar.
+    // Source: docs/hdf5-schema.md, Figures; regions as built by structure::planar.
     let f = &solved().1;
     let (points, _) = point_figures(f);
     let m = points[0].map.as_ref().unwrap();
@@ -369,6 +369,13 @@ fn assert_files_decode(files: &[PathBuf]) {
             Some("svg") => {
                 let t = std::fs::read_to_string(p).unwrap();
                 assert!(t.contains("<svg") && t.trim_end().ends_with("</svg>"));
+                // No tick or label reads "-0" or "-0.0" (plotters writes text
+                // content on a line of its own).
+                let signed_zero = t
+                    .lines()
+                    .map(str::trim)
+                    .find(|l| l.starts_with("-0") && l[1..].chars().all(|c| c == '0' || c == '.'));
+                assert_eq!(signed_zero, None, "{}", p.display());
             }
             other => panic!("unexpected file {other:?}"),
         }
@@ -393,7 +400,7 @@ fn every_written_figure_is_non_empty_and_decodes() {
 
 #[test]
 fn points_without_curves_get_no_figure_and_no_file() {
-    // Source: issue 10 item 4 (a tri-gate sweep used to fail and leave a blank PNG).
+    // Source: docs/hdf5-schema.md, Figures (a fin sweep has no I_D-V_G curves: no figure, no file).
     let f = &theory_only().1;
     let (points, notes) = point_figures(f);
     assert!(points.is_empty());
@@ -409,7 +416,7 @@ fn points_without_curves_get_no_figure_and_no_file() {
 
 #[test]
 fn the_plot_command_takes_criteria_and_notes_what_it_leaves_out() {
-    // Source: issue 11 item 1 (--dibl-max, --ss-max, --vt-rolloff-max on plot).
+    // Source: docs/hdf5-schema.md, Figures (--dibl-max, --ss-max, --vt-rolloff-max on plot).
     let (dir, _) = theory_only();
     let out = dir.join("plots-cli");
     let st = gatehold()
@@ -443,7 +450,7 @@ fn the_plot_command_takes_criteria_and_notes_what_it_leaves_out() {
 
 #[test]
 fn device_plots_of_a_solved_device_decode_and_mark_the_report_threshold() {
-    // Source: issue 10 item 4; the threshold line is the report's own I_cc W/L_g.
+    // Source: docs/hdf5-schema.md, Figures; the threshold line is the report's own I_cc W/L_g.
     let s = common::device(&base_device());
     let sol = common::solve_device(&s);
     let map = gatehold::io::MapData::of(&sol);
@@ -461,7 +468,7 @@ fn device_plots_of_a_solved_device_decode_and_mark_the_report_threshold() {
 
 #[test]
 fn a_map_point_without_converged_current_is_reported_missing_with_exit_2() {
-    // Source: README exit codes (2: finished, some figure missing); issue 10 item 4.
+    // Source: README exit codes (2: finished, some figure missing); docs/hdf5-schema.md, Figures.
     let mut f = solved().1.clone();
     let k = f.rows.iter().position(|r| r.map.is_some()).unwrap();
     let c = &mut f.rows[k].curve;

@@ -202,8 +202,15 @@ pub fn plot(args: &PlotArgs) -> anyhow::Result<Exit> {
         );
     }
     let f = gatehold::io::hdf5::read_sweep(&args.file)?;
-    let mut criteria = gatehold::plot::plan_criteria(&f)
-        .with_context(|| format!("sweep file {}", args.file.display()))?;
+    // A stored plan whose [criteria] this version cannot read (written by a
+    // newer one) leaves the lines to the options, with a warning.
+    let mut criteria = gatehold::plot::plan_criteria(&f).unwrap_or_else(|e| {
+        eprintln!(
+            "warning: {}: {e}; criteria lines only from the options",
+            args.file.display()
+        );
+        Default::default()
+    });
     for (option, value, slot) in [
         ("--dibl-max", args.dibl_max, &mut criteria.dibl_max_mv_per_v),
         ("--ss-max", args.ss_max, &mut criteria.ss_max_mv_per_dec),

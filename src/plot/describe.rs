@@ -212,7 +212,10 @@ pub fn criteria_text(c: &Criteria) -> String {
         parts.push(format!("DIBL <= {} mV/V", short_number(x)));
     }
     if let Some(x) = c.ss_max_mv_per_dec {
-        parts.push(format!("SS <= {} mV/dec", short_number(x)));
+        parts.push(format!(
+            "SS (larger of lin, sat) <= {} mV/dec",
+            short_number(x)
+        ));
     }
     if let Some(x) = c.vt_rolloff_max_mv {
         parts.push(format!("|roll-off| <= {} mV", short_number(x)));
@@ -222,24 +225,19 @@ pub fn criteria_text(c: &Criteria) -> String {
 
 /// The criterion lines of one figure (by its column).
 fn criteria_levels(column: &str, c: &Criteria, values: &[f64]) -> Vec<Level> {
+    let line = |limit: Option<f64>, what: &str, unit: &str| -> Vec<Level> {
+        limit
+            .map(|x| Level {
+                y: x,
+                label: format!("{what} limit {} {unit}", short_number(x)),
+            })
+            .into_iter()
+            .collect()
+    };
     match column {
-        "dibl_mV_per_V" => c
-            .dibl_max_mv_per_v
-            .map(|x| Level {
-                y: x,
-                label: format!("DIBL limit {} mV/V", short_number(x)),
-            })
-            .into_iter()
-            .collect(),
+        "dibl_mV_per_V" => line(c.dibl_max_mv_per_v, "DIBL", "mV/V"),
         // SS is judged on the larger of lin and sat; this figure shows sat.
-        "ss_sat_mV_per_dec" => c
-            .ss_max_mv_per_dec
-            .map(|x| Level {
-                y: x,
-                label: format!("SS limit {} mV/dec", short_number(x)),
-            })
-            .into_iter()
-            .collect(),
+        "ss_sat_mV_per_dec" => line(c.ss_max_mv_per_dec, "SS", "mV/dec"),
         "vt_rolloff_mV" => {
             let Some(x) = c.vt_rolloff_max_mv else {
                 return Vec::new();

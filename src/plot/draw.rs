@@ -131,10 +131,19 @@ where
     DB::ErrorType: 'static,
 {
     let font = (FONT, 13).into_font().color(&BLACK);
+    let bottom = area.dim_in_pixel().1 as i32 - 30;
     let mut y = 60;
-    for e in entries {
-        draw_glyph(area, &e.glyph, (8, y))?;
+    for (k, e) in entries.iter().enumerate() {
         let lines = wrap(&e.label, 33);
+        if y + 16 * (lines.len() as i32 - 1) > bottom {
+            area.draw(&Text::new(
+                format!("+ {} more entries not shown", entries.len() - k),
+                (8, y - 7),
+                font.clone(),
+            ))?;
+            break;
+        }
+        draw_glyph(area, &e.glyph, (8, y))?;
         for (k, line) in lines.iter().enumerate() {
             area.draw(&Text::new(
                 line.clone(),
@@ -333,6 +342,7 @@ where
     let (main, bar) = root.split_horizontally(root.dim_in_pixel().0.saturating_sub(120));
     let (x0, x1) = (m.x_nm[0], m.x_nm[nx - 1]);
     let (y0, y1) = (m.y_nm[0], m.y_nm[ny - 1]);
+    let (xd, yd) = (decimals(x0, x1), decimals(y0, y1));
     let mut chart = ChartBuilder::on(&main)
         .caption(&f.title, (FONT, 18))
         .margin(12)
@@ -344,6 +354,8 @@ where
         .disable_mesh()
         .x_desc("x along the channel (nm)")
         .y_desc("y below the silicon surface (nm)")
+        .x_label_formatter(&|v| axis_text(*v, xd))
+        .y_label_formatter(&|v| axis_text(*v, yd))
         .label_style((FONT, 14))
         .draw()?;
     let metal = RGBColor(0xb8, 0xb8, 0xb8);
