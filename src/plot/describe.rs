@@ -26,15 +26,17 @@ pub fn compliant_lengths(f: &SweepFile, criteria: &Criteria) -> Vec<(String, Opt
         .collect()
 }
 
-/// Whether row `k` holds theory figures rather than a 2D solve.
+/// Whether row `k` holds theory figures rather than a solve.
 ///
-/// The sweep file of this version stores no per-point method, so this falls
-/// back to what the file allows: a solved point always stores its I_D-V_G
-/// curves, a theory point (fins and wires) none. So a point with no gate
-/// voltages but a finite DIBL or SS is a theory point. When the file gains a
-/// method column, read it here instead.
+/// Read from the file's `method` column; a file that predates the column
+/// (format 1) falls back to what it allows: a solved point always stores its
+/// I_D-V_G curves, a theory point none, so a point with no gate voltages but
+/// a finite DIBL or SS is a theory point.
 pub fn is_theory_row(f: &SweepFile, k: usize) -> bool {
     let r = &f.rows[k];
+    if let Some(m) = r.method {
+        return m == crate::evaluate::Method::Theory;
+    }
     let has = |name: &str| {
         f.figures
             .iter()
