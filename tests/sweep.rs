@@ -685,7 +685,7 @@ fn ctrl_c_stops_cleanly_with_exit_3_and_resumes() {
     let exe = env!("CARGO_BIN_EXE_gatehold");
     let (_, r) = reference();
     let out = dir().join("interrupted.h5");
-    let mut child = Command::new(exe)
+    let child = Command::new(exe)
         .arg("sweep")
         .arg(dir().join("plan.toml"))
         .arg("--out")
