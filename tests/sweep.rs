@@ -644,37 +644,49 @@ fn killed_binary_leaves_a_resumable_file() {
     }
     let (_, r) = reference();
     let out = dir().join("killed.h5");
-    let mut child = Command::new(exe)
-        .arg("sweep")
-        .arg(dir().join("plan.toml"))
-        .arg("--out")
-        .arg(&out)
-        .args(["--jobs", "1", "--quiet"])
-        .spawn()
-        .unwrap();
-    // Kill once at least one point is on disk.
-    let t = std::time::Instant::now();
-    loop {
-        if read_sweep(&out).is_ok_and(|f| !f.rows.is_empty()) || t.elapsed().as_secs() > 60 {
-            break;
-        }
-        std::thread::sleep(std::time::Duration::from_millis(20));
-    }
+    let mut child = spawn_sweep(&out);
+    wait_for_a_point(&out);
     child.kill().unwrap();
     child.wait().unwrap();
     let part = read_sweep(&out).unwrap();
     println!("killed with {} of 6 points on disk", part.rows.len());
     assert!(!part.rows.is_empty());
-    let st = Command::new(exe)
+    resume_to_the_reference(&out, r);
+}
+
+/// `gatehold sweep plan.toml --out OUT --jobs 1 --quiet`, stderr captured.
+fn spawn_sweep(out: &Path) -> std::process::Child {
+    Command::new(env!("CARGO_BIN_EXE_gatehold"))
         .arg("sweep")
         .arg(dir().join("plan.toml"))
         .arg("--out")
-        .arg(&out)
+        .arg(out)
+        .args(["--jobs", "1", "--quiet"])
+        .stderr(std::process::Stdio::piped())
+        .spawn()
+        .unwrap()
+}
+
+/// Waits (at most 60 s) until the file on disk holds a finished point.
+fn wait_for_a_point(out: &Path) {
+    let t = std::time::Instant::now();
+    while !read_sweep(out).is_ok_and(|f| !f.rows.is_empty()) && t.elapsed().as_secs() < 60 {
+        std::thread::sleep(std::time::Duration::from_millis(10));
+    }
+}
+
+/// `--resume` through the binary exits 0 with the reference's points.
+fn resume_to_the_reference(out: &Path, r: &SweepFile) {
+    let st = Command::new(env!("CARGO_BIN_EXE_gatehold"))
+        .arg("sweep")
+        .arg(dir().join("plan.toml"))
+        .arg("--out")
+        .arg(out)
         .args(["--resume", "--quiet"])
         .status()
         .unwrap();
     assert_eq!(st.code(), Some(0));
-    assert_same_points(&read_sweep(&out).unwrap(), r);
+    assert_same_points(&read_sweep(out).unwrap(), r);
 }
 
 /// Ctrl-C (SIGINT) to the real binary mid-sweep: no new point starts, the
@@ -682,22 +694,10 @@ fn killed_binary_leaves_a_resumable_file() {
 /// file is left, and `--resume` finishes the file with the reference's points.
 #[test]
 fn ctrl_c_stops_cleanly_with_exit_3_and_resumes() {
-    let exe = env!("CARGO_BIN_EXE_gatehold");
     let (_, r) = reference();
     let out = dir().join("interrupted.h5");
-    let child = Command::new(exe)
-        .arg("sweep")
-        .arg(dir().join("plan.toml"))
-        .arg("--out")
-        .arg(&out)
-        .args(["--jobs", "1", "--quiet"])
-        .stderr(std::process::Stdio::piped())
-        .spawn()
-        .unwrap();
-    let t = std::time::Instant::now();
-    while !read_sweep(&out).is_ok_and(|f| !f.rows.is_empty()) && t.elapsed().as_secs() < 60 {
-        std::thread::sleep(std::time::Duration::from_millis(10));
-    }
+    let child = spawn_sweep(&out);
+    wait_for_a_point(&out);
     let sent = Command::new("kill")
         .args(["-INT", &child.id().to_string()])
         .status()
@@ -711,16 +711,7 @@ fn ctrl_c_stops_cleanly_with_exit_3_and_resumes() {
     assert!(stderr.contains("interrupted"), "{stderr}");
     assert!(part.rows.len() < 6 && !part.is_complete());
     assert!(!dir().join("interrupted.h5.tmp").exists());
-    let st = Command::new(exe)
-        .arg("sweep")
-        .arg(dir().join("plan.toml"))
-        .arg("--out")
-        .arg(&out)
-        .args(["--resume", "--quiet"])
-        .status()
-        .unwrap();
-    assert_eq!(st.code(), Some(0));
-    assert_same_points(&read_sweep(&out).unwrap(), r);
+    resume_to_the_reference(&out, r);
 }
 
 /// A sweep file knows its device: after the base device file changes,
