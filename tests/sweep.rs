@@ -714,6 +714,37 @@ fn ctrl_c_stops_cleanly_with_exit_3_and_resumes() {
     resume_to_the_reference(&out, r);
 }
 
+/// SIGTERM (what Slurm sends at a time limit) is handled like Ctrl-C, and a
+/// second signal exits at once with 3: the file on disk is the last
+/// checkpoint, readable, with no `.tmp` left.
+#[test]
+fn sigterm_then_a_second_signal_exits_at_once_leaving_the_last_checkpoint() {
+    let (_, r) = reference();
+    let out = dir().join("terminated.h5");
+    let child = spawn_sweep(&out);
+    wait_for_a_point(&out);
+    for signal in ["-TERM", "-INT"] {
+        let sent = Command::new("kill")
+            .args([signal, &child.id().to_string()])
+            .status()
+            .unwrap();
+        assert!(sent.success());
+        std::thread::sleep(std::time::Duration::from_millis(30));
+    }
+    let done = child.wait_with_output().unwrap();
+    let stderr = String::from_utf8_lossy(&done.stderr);
+    assert_eq!(done.status.code(), Some(3), "{stderr}");
+    // The second signal came while a point (0.1-0.5 s) was still running.
+    assert!(
+        stderr.contains("interrupted") && stderr.contains("stopped at once"),
+        "{stderr}"
+    );
+    let part = read_sweep(&out).unwrap();
+    assert!(!part.rows.is_empty() && !part.is_complete(), "{stderr}");
+    assert!(!dir().join("terminated.h5.tmp").exists());
+    resume_to_the_reference(&out, r);
+}
+
 /// A sweep file knows its device: after the base device file changes,
 /// `--resume` and `merge` refuse, naming the changed file (both files hold
 /// the same plan text, so only the stored hash can tell).
