@@ -876,3 +876,33 @@ fn csv_numbers_are_plain_and_round_trip_exactly() {
         assert_eq!(cells[cells.len() - 2], "2d-solve");
     }
 }
+
+/// Per-point warnings reach the file: a 4 nm body carries the quantum-
+/// confinement caution of validation (below about 5 nm, not modelled), a
+/// 7 nm body none; both points record their method.
+#[test]
+fn per_point_warnings_and_method_are_stored() {
+    let d = tempfile::tempdir().unwrap();
+    std::fs::write(d.path().join("tiny.toml"), DEVICE).unwrap();
+    let p = parse_plan(
+        "base = \"tiny.toml\"\n[axes]\n\"geometry.body_thickness_nm\" = [4, 7]\n",
+        d.path(),
+    )
+    .unwrap();
+    let out = d.path().join("w.h5");
+    run_sweep(&p, &out, &opts(2), &Quiet).unwrap();
+    let f = read_sweep(&out).unwrap();
+    assert!(
+        f.rows[0]
+            .warnings
+            .iter()
+            .any(|w| w.contains("quantum confinement")),
+        "{:?}",
+        f.rows[0].warnings
+    );
+    assert!(f.rows[1].warnings.is_empty(), "{:?}", f.rows[1].warnings);
+    assert!(f
+        .rows
+        .iter()
+        .all(|r| r.method == Some(gatehold::evaluate::Method::TwoDSolve)));
+}
