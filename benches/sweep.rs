@@ -3,7 +3,7 @@
 //! Run: cargo bench --bench sweep
 
 use criterion::{criterion_group, criterion_main, Criterion};
-use gatehold::evaluate::{CriteriaVerdict, DeviceReport, Status};
+use gatehold::evaluate::{CriteriaVerdict, DeviceReport, Method, Status};
 use gatehold::io::hdf5::{to_bytes, write_sweep};
 use gatehold::io::{AxisColumn, AxisValue, CurveData, PointRow, SweepFile, SweepMeta};
 use gatehold::sweep::{parse_plan, run_sweep, Quiet, SweepOptions};
@@ -22,6 +22,8 @@ fn synthetic(points: usize) -> SweepFile {
                 .map(|(k, _)| Some(k as f64 * 0.1 + i as f64))
                 .collect(),
             status: Status::Ok,
+            method: Some(Method::TwoDSolve),
+            warnings: Vec::new(),
             meets_criteria: CriteriaVerdict::Meets,
             newton_steps: 400,
             vds_v: (0.05, 0.8),
@@ -46,6 +48,8 @@ fn synthetic(points: usize) -> SweepFile {
             shard_index: 0,
             shard_count: 1,
             points_total: points,
+            base_device: String::new(),
+            inputs: Vec::new(),
         },
         axes: vec![
             AxisColumn {

@@ -4,7 +4,7 @@
 //! command lines (huge, tiny, negative, NaN, infinite and wrong-type values
 //! for every key of the validator's key table, missing and unknown keys,
 //! garbage text, non-regular and oversized files, bad shards, bad `--jobs`,
-//! bad `--lengths`, ...), runs each through the binary with a per-input
+//! bad `--lengths`, truncated and bit-flipped sweep files, ...), runs each through the binary with a per-input
 //! time-out, and classifies the outcome:
 //!
 //! - refused: exit 1 or 64 with an error on stderr that names the key, file
@@ -556,7 +556,58 @@ fn cases() -> Vec<Case> {
             });
         }
     }
+    // 11. Damaged sweep files: a real one truncated and with bytes flipped.
+    let real = real_sweep_file();
+    for k in 1..40 {
+        let cut = real.len() * k / 40;
+        v.push(Case {
+            label: format!("merge a sweep file cut at {cut} of {} bytes", real.len()),
+            files: vec![("part.h5".into(), real[..cut].to_vec())],
+            args: dev(&["merge", "{dir}/part.h5", "--out", "{dir}/out.h5"]),
+            token: "part.h5".into(),
+        });
+    }
+    for k in 0..120 {
+        let mut bytes = real.clone();
+        for _ in 0..(1 + k % 4) {
+            let at = (rnd() as usize) % bytes.len();
+            bytes[at] ^= (rnd() as u8) | 1;
+        }
+        let cmd = if k % 2 == 0 { "merge" } else { "plot" };
+        v.push(Case {
+            label: format!("{cmd} a sweep file with flipped bytes ({k})"),
+            files: vec![("part.h5".into(), bytes)],
+            args: dev(&[cmd, "{dir}/part.h5", "--out", "{dir}/out.h5"]),
+            token: "part.h5".into(),
+        });
+    }
     v
+}
+
+/// A small real sweep file (two tiny double-gate points), written once.
+fn real_sweep_file() -> Vec<u8> {
+    static F: std::sync::OnceLock<Vec<u8>> = std::sync::OnceLock::new();
+    F.get_or_init(|| {
+        let d = tempfile::tempdir().unwrap();
+        let mut t = base_device("double-gate");
+        set(&mut t, "geometry.body_thickness_nm", Value::Integer(5));
+        set(&mut t, "geometry.source_drain_length_nm", Value::Integer(8));
+        set(&mut t, "geometry.gate_height_nm", Value::Integer(5));
+        std::fs::write(d.path().join("dev.toml"), toml_text(&t)).unwrap();
+        std::fs::write(
+            d.path().join("plan.toml"),
+            "base = \"dev.toml\"\n[axes]\n\"geometry.gate_length_nm\" = [15, 20]\n[output]\nmaps = [0]\n",
+        )
+        .unwrap();
+        let st = Command::new(BIN)
+            .args(["sweep", "plan.toml", "--out", "s.h5", "--quiet"])
+            .current_dir(d.path())
+            .status()
+            .unwrap();
+        assert!(st.code().is_some_and(|c| c == 0 || c == 2), "{st}");
+        std::fs::read(d.path().join("s.h5")).unwrap()
+    })
+    .clone()
 }
 
 /// Runs one case; returns (exit code or None on time-out, stderr).

@@ -644,37 +644,49 @@ fn killed_binary_leaves_a_resumable_file() {
     }
     let (_, r) = reference();
     let out = dir().join("killed.h5");
-    let mut child = Command::new(exe)
-        .arg("sweep")
-        .arg(dir().join("plan.toml"))
-        .arg("--out")
-        .arg(&out)
-        .args(["--jobs", "1", "--quiet"])
-        .spawn()
-        .unwrap();
-    // Kill once at least one point is on disk.
-    let t = std::time::Instant::now();
-    loop {
-        if read_sweep(&out).is_ok_and(|f| !f.rows.is_empty()) || t.elapsed().as_secs() > 60 {
-            break;
-        }
-        std::thread::sleep(std::time::Duration::from_millis(20));
-    }
+    let mut child = spawn_sweep(&out);
+    wait_for_a_point(&out);
     child.kill().unwrap();
     child.wait().unwrap();
     let part = read_sweep(&out).unwrap();
     println!("killed with {} of 6 points on disk", part.rows.len());
     assert!(!part.rows.is_empty());
-    let st = Command::new(exe)
+    resume_to_the_reference(&out, r);
+}
+
+/// `gatehold sweep plan.toml --out OUT --jobs 1 --quiet`, stderr captured.
+fn spawn_sweep(out: &Path) -> std::process::Child {
+    Command::new(env!("CARGO_BIN_EXE_gatehold"))
         .arg("sweep")
         .arg(dir().join("plan.toml"))
         .arg("--out")
-        .arg(&out)
+        .arg(out)
+        .args(["--jobs", "1", "--quiet"])
+        .stderr(std::process::Stdio::piped())
+        .spawn()
+        .unwrap()
+}
+
+/// Waits (at most 60 s) until the file on disk holds a finished point.
+fn wait_for_a_point(out: &Path) {
+    let t = std::time::Instant::now();
+    while !read_sweep(out).is_ok_and(|f| !f.rows.is_empty()) && t.elapsed().as_secs() < 60 {
+        std::thread::sleep(std::time::Duration::from_millis(10));
+    }
+}
+
+/// `--resume` through the binary exits 0 with the reference's points.
+fn resume_to_the_reference(out: &Path, r: &SweepFile) {
+    let st = Command::new(env!("CARGO_BIN_EXE_gatehold"))
+        .arg("sweep")
+        .arg(dir().join("plan.toml"))
+        .arg("--out")
+        .arg(out)
         .args(["--resume", "--quiet"])
         .status()
         .unwrap();
     assert_eq!(st.code(), Some(0));
-    assert_same_points(&read_sweep(&out).unwrap(), r);
+    assert_same_points(&read_sweep(out).unwrap(), r);
 }
 
 /// Ctrl-C (SIGINT) to the real binary mid-sweep: no new point starts, the
@@ -682,22 +694,10 @@ fn killed_binary_leaves_a_resumable_file() {
 /// file is left, and `--resume` finishes the file with the reference's points.
 #[test]
 fn ctrl_c_stops_cleanly_with_exit_3_and_resumes() {
-    let exe = env!("CARGO_BIN_EXE_gatehold");
     let (_, r) = reference();
     let out = dir().join("interrupted.h5");
-    let mut child = Command::new(exe)
-        .arg("sweep")
-        .arg(dir().join("plan.toml"))
-        .arg("--out")
-        .arg(&out)
-        .args(["--jobs", "1", "--quiet"])
-        .stderr(std::process::Stdio::piped())
-        .spawn()
-        .unwrap();
-    let t = std::time::Instant::now();
-    while !read_sweep(&out).is_ok_and(|f| !f.rows.is_empty()) && t.elapsed().as_secs() < 60 {
-        std::thread::sleep(std::time::Duration::from_millis(10));
-    }
+    let child = spawn_sweep(&out);
+    wait_for_a_point(&out);
     let sent = Command::new("kill")
         .args(["-INT", &child.id().to_string()])
         .status()
@@ -711,16 +711,38 @@ fn ctrl_c_stops_cleanly_with_exit_3_and_resumes() {
     assert!(stderr.contains("interrupted"), "{stderr}");
     assert!(part.rows.len() < 6 && !part.is_complete());
     assert!(!dir().join("interrupted.h5.tmp").exists());
-    let st = Command::new(exe)
-        .arg("sweep")
-        .arg(dir().join("plan.toml"))
-        .arg("--out")
-        .arg(&out)
-        .args(["--resume", "--quiet"])
-        .status()
-        .unwrap();
-    assert_eq!(st.code(), Some(0));
-    assert_same_points(&read_sweep(&out).unwrap(), r);
+    resume_to_the_reference(&out, r);
+}
+
+/// SIGTERM (what Slurm sends at a time limit) is handled like Ctrl-C, and a
+/// second signal exits at once with 3: the file on disk is the last
+/// checkpoint, readable, with no `.tmp` left.
+#[test]
+fn sigterm_then_a_second_signal_exits_at_once_leaving_the_last_checkpoint() {
+    let (_, r) = reference();
+    let out = dir().join("terminated.h5");
+    let child = spawn_sweep(&out);
+    wait_for_a_point(&out);
+    for signal in ["-TERM", "-INT"] {
+        let sent = Command::new("kill")
+            .args([signal, &child.id().to_string()])
+            .status()
+            .unwrap();
+        assert!(sent.success());
+        std::thread::sleep(std::time::Duration::from_millis(30));
+    }
+    let done = child.wait_with_output().unwrap();
+    let stderr = String::from_utf8_lossy(&done.stderr);
+    assert_eq!(done.status.code(), Some(3), "{stderr}");
+    // The second signal came while a point (0.1-0.5 s) was still running.
+    assert!(
+        stderr.contains("interrupted") && stderr.contains("stopped at once"),
+        "{stderr}"
+    );
+    let part = read_sweep(&out).unwrap();
+    assert!(!part.rows.is_empty() && !part.is_complete(), "{stderr}");
+    assert!(!dir().join("terminated.h5.tmp").exists());
+    resume_to_the_reference(&out, r);
 }
 
 /// A sweep file knows its device: after the base device file changes,
@@ -853,4 +875,34 @@ fn csv_numbers_are_plain_and_round_trip_exactly() {
         }
         assert_eq!(cells[cells.len() - 2], "2d-solve");
     }
+}
+
+/// Per-point warnings reach the file: a 4 nm body carries the quantum-
+/// confinement caution of validation (below about 5 nm, not modelled), a
+/// 7 nm body none; both points record their method.
+#[test]
+fn per_point_warnings_and_method_are_stored() {
+    let d = tempfile::tempdir().unwrap();
+    std::fs::write(d.path().join("tiny.toml"), DEVICE).unwrap();
+    let p = parse_plan(
+        "base = \"tiny.toml\"\n[axes]\n\"geometry.body_thickness_nm\" = [4, 7]\n",
+        d.path(),
+    )
+    .unwrap();
+    let out = d.path().join("w.h5");
+    run_sweep(&p, &out, &opts(2), &Quiet).unwrap();
+    let f = read_sweep(&out).unwrap();
+    assert!(
+        f.rows[0]
+            .warnings
+            .iter()
+            .any(|w| w.contains("quantum confinement")),
+        "{:?}",
+        f.rows[0].warnings
+    );
+    assert!(f.rows[1].warnings.is_empty(), "{:?}", f.rows[1].warnings);
+    assert!(f
+        .rows
+        .iter()
+        .all(|r| r.method == Some(gatehold::evaluate::Method::TwoDSolve)));
 }
