@@ -12,7 +12,7 @@ use super::report::{Method, Status, CAUTION};
 use crate::device::{Architecture, Scenario};
 use crate::extract::electrical_length::{terada_muta, TeradaMuta};
 use crate::progress::Observer;
-use crate::theory::short_channel::{fit_lambda_from_dibl, LambdaFit};
+use crate::theory::short_channel::{fit_lambda_from_dibl, LambdaFit, TheoryLength};
 
 /// One gate length of a scan.
 #[derive(Debug, Clone, PartialEq, Serialize)]
@@ -70,6 +70,8 @@ pub struct ScanReport {
     /// Lambda fitted to the solved barrier lowering against L.
     pub lambda_fitted_barrier: Option<LambdaFit>,
     pub lambda_fit_note: String,
+    /// The length the theory columns are evaluated at: "gate" (L_g) or "electrical" (L_elec).
+    pub theory_length: &'static str,
     /// Delta L = L_g - L_elec by the channel-resistance method of Terada and
     /// Muta (Jpn. J. Appl. Phys. 18, 953, 1979) across the solved lengths, at
     /// two gate voltages in the subthreshold window of the longest length
@@ -180,6 +182,17 @@ pub fn scan(
     lengths: &[f64],
     observer: &dyn Observer,
 ) -> Result<ScanReport, ScanError> {
+    scan_with(s, lengths, TheoryLength::Gate, observer)
+}
+
+/// [`scan`] with the theory columns at the length `theory_length` names
+/// (L_g, or each length's solved L_elec).
+pub fn scan_with(
+    s: &Scenario,
+    lengths: &[f64],
+    theory_length: TheoryLength,
+    observer: &dyn Observer,
+) -> Result<ScanReport, ScanError> {
     if lengths.is_empty() {
         return Err(ScanError::Empty);
     }
@@ -247,6 +260,13 @@ pub fn scan(
                             .cloned()
                             .collect();
                         curve = Some((l, r.vgs_v, r.id_lin, r.threshold_current_a_per_um));
+                        if theory_length == TheoryLength::Electrical {
+                            let th = inputs.at_length(l, r.l_elec_nm, theory_length);
+                            let th = th.map_err(|e| problems.push(format!("theory: {e}"))).ok();
+                            row.theory_rolloff_mv = th.map(|t| 1000.0 * t.roll_off_lin_v);
+                            row.theory_dibl_mv_per_v = th.map(|t| t.dibl_mv_per_v);
+                            row.theory_ss_mv_per_dec = th.map(|t| t.ss_mv_per_dec);
+                        }
                         problems.extend(r.problems);
                     }
                     Err(e) => problems.push(format!("solve: {e}")),
@@ -286,6 +306,7 @@ pub fn scan(
         lambda_fitted,
         lambda_fitted_barrier,
         terada_muta,
+        theory_length: theory_length.name(),
         lambda_fit_note: "least-squares lines of ln(DIBL) and of ln(barrier lowering) against L over the solved \
                           lengths; lambda = -1/(2 slope) (leading exp(-L/(2 lambda)) term of Liu et al. 1993). \
                           Constant-current DIBL also holds a slowly decaying part (the drain shortens the \
