@@ -379,6 +379,15 @@ pub fn shortest_compliant(points: &[LengthPoint], criteria: &Criteria) -> Shorte
         return answer;
     }
     let (lf, lc) = (pf.gate_length_nm, pc.gate_length_nm);
+    for p in points
+        .iter()
+        .filter(|p| !p.ok && p.gate_length_nm > lf && p.gate_length_nm < lc)
+    {
+        answer.notes.push(format!(
+            "interpolated across L_g = {} nm, whose point failed (see its status)",
+            p.gate_length_nm
+        ));
+    }
     let mut best: Option<(Criterion, f64)> = None;
     for &(c, b) in &given {
         let (Some(yf), Some(yc)) = (pf.figure(c), pc.figure(c)) else {
@@ -475,6 +484,15 @@ mod tests {
         assert_eq!(a.kind, AnswerKind::NoneCompliant);
         assert_eq!(a.limiting_criterion, Some(Criterion::Dibl));
         assert_eq!(a.gate_length_nm, None);
+        // A failed point inside the bracket is named.
+        let mut with_failed = pts.to_vec();
+        with_failed.push(LengthPoint {
+            ok: false,
+            ..pt(15.0, 1.0, 1.0, 1.0)
+        });
+        let a = shortest_compliant(&with_failed, &c);
+        assert_eq!(a.bracket_nm, Some((10.0, 20.0)));
+        assert!(a.notes[0].contains("15 nm"), "{:?}", a.notes);
         // No criteria: unknown.
         assert_eq!(
             shortest_compliant(&pts, &Criteria::default()).kind,
