@@ -10,7 +10,7 @@ use super::device::evaluate;
 use super::reference::{Reference, ReferenceError};
 use super::report::{Method, Status, CAUTION};
 use crate::device::{Architecture, Scenario};
-use crate::extract::electrical_length::{terada_muta, TeradaMuta};
+use crate::extract::electrical_length::{terada_muta, LengthCurve, TeradaMuta};
 use crate::progress::Observer;
 use crate::theory::short_channel::{fit_lambda_from_dibl, LambdaFit, TheoryLength};
 
@@ -149,14 +149,14 @@ pub enum ScanError {
     Theory(String),
 }
 
+/// A solved length's V_DS,lin curve and its threshold current (A/um).
+type SolvedCurve = (f64, Vec<f64>, Vec<Option<f64>>, f64);
+
 /// Terada-Muta across the solved lengths' V_DS,lin curves (L_g nm, gate
 /// voltages, currents, threshold current A/um): the two gate voltages are the
 /// lowest and highest grid points of the longest length's SS window (1e-3 to
 /// 1e-1 of its threshold current).
-fn terada_muta_of(
-    curves: &[(f64, Vec<f64>, Vec<Option<f64>>, f64)],
-    vds_v: f64,
-) -> Option<TeradaMuta> {
+fn terada_muta_of(curves: &[SolvedCurve], vds_v: f64) -> Option<TeradaMuta> {
     let longest = curves.iter().max_by(|a, b| a.0.total_cmp(&b.0))?;
     let (_, v, i, target) = longest;
     let window: Vec<f64> = v
@@ -169,7 +169,7 @@ fn terada_muta_of(
     if lo == hi {
         return None;
     }
-    let refs: Vec<(f64, &[f64], &[Option<f64>])> = curves
+    let refs: Vec<LengthCurve> = curves
         .iter()
         .map(|(l, v, i, _)| (*l, v.as_slice(), i.as_slice()))
         .collect();
@@ -207,8 +207,7 @@ pub fn scan_with(
         .map_err(|e| ScanError::Theory(e.to_string()))?;
     let inputs = reference.theory.clone().map_err(ScanError::Theory)?;
     let lambda = lam.lambda_numeric_nm;
-    type Curve = (f64, Vec<f64>, Vec<Option<f64>>, f64);
-    let solved: Vec<(ScanRow, Option<Curve>)> = scenarios
+    let solved: Vec<(ScanRow, Option<SolvedCurve>)> = scenarios
         .par_iter()
         .map(|sc| {
             let l = sc.geometry.gate_length_nm;
@@ -276,7 +275,7 @@ pub fn scan_with(
             (row, curve)
         })
         .collect();
-    let curves: Vec<Curve> = solved.iter().filter_map(|(_, c)| c.clone()).collect();
+    let curves: Vec<SolvedCurve> = solved.iter().filter_map(|(_, c)| c.clone()).collect();
     let rows: Vec<ScanRow> = solved.into_iter().map(|(r, _)| r).collect();
     let terada_muta = terada_muta_of(&curves, s.bias.vds_lin_v);
     let fit = |pick: &dyn Fn(&ScanRow) -> Option<f64>| {

@@ -150,6 +150,9 @@ pub struct TeradaMuta {
     pub lengths: usize,
 }
 
+/// One gate length's V_DS,lin curve: (L_g nm, gate voltages V, |I_D| A/um or None).
+pub type LengthCurve<'a> = (f64, &'a [f64], &'a [Option<f64>]);
+
 /// Least-squares line y = a + b x.
 fn line(pts: &[(f64, f64)]) -> (f64, f64) {
     let n = pts.len() as f64;
@@ -167,11 +170,7 @@ fn line(pts: &[(f64, f64)]) -> (f64, f64) {
 /// (L_g nm, gate voltages, |I_D| A/um or None); `vgs` the two gate voltages
 /// (each must be a sample of every curve, within 1e-9 V). None with fewer
 /// than two lengths, a missing sample, or parallel lines.
-pub fn terada_muta(
-    curves: &[(f64, &[f64], &[Option<f64>])],
-    vds_v: f64,
-    vgs: (f64, f64),
-) -> Option<TeradaMuta> {
+pub fn terada_muta(curves: &[LengthCurve], vds_v: f64, vgs: (f64, f64)) -> Option<TeradaMuta> {
     if curves.len() < 2 {
         return None;
     }
@@ -221,7 +220,7 @@ mod tm_tests {
                     .collect()
             })
             .collect();
-        let c: Vec<(f64, &[f64], &[Option<f64>])> = ls
+        let c: Vec<LengthCurve> = ls
             .iter()
             .zip(&cur)
             .map(|(&l, i)| (l, &v[..], &i[..]))
