@@ -432,6 +432,25 @@ mod tests {
     }
 
     #[test]
+    fn command_line_criteria_override_and_bad_values_name_the_option() {
+        let plan = Criteria {
+            dibl_max_mv_per_v: Some(100.0),
+            ss_max_mv_per_dec: Some(80.0),
+            vt_rolloff_max_mv: None,
+        };
+        let c = plan.overridden(Some(90.0), None, Some(50.0)).unwrap();
+        assert_eq!(c.dibl_max_mv_per_v, Some(90.0));
+        assert_eq!(c.ss_max_mv_per_dec, Some(80.0));
+        assert_eq!(c.vt_rolloff_max_mv, Some(50.0));
+        let e = plan
+            .overridden(None, Some(-3.0), None)
+            .unwrap_err()
+            .to_string();
+        assert!(e.contains("--ss-max") && e.contains("-3"), "{e}");
+        assert!(plan.overridden(None, None, Some(f64::NAN)).is_err());
+    }
+
+    #[test]
     fn log_linear_dibl_crossing_is_exact_for_an_exponential() {
         // DIBL = 400 exp(-L/10): the log-linear crossing of 100 mV/V is at
         // L = 10 ln 4 exactly (an independent closed form, no solver).
