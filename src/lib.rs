@@ -15,11 +15,11 @@
 //! | mesh lines | [`mesh`] | [`mesh::graded_line`] |
 //! | box-integration discretisation | [`discretize`] | [`discretize::Problem`] |
 //! | Cholesky, Newton, Anderson, quasi-Fermi loop, continuation, uniform-level solver | [`solve`] | [`solve::DeviceSolver`], [`solve::UniformChannel`] |
-//! | V_t, SS, DIBL, barrier, long channel | [`extract`] | [`extract::ramp_figures`], [`extract::extract_long_channel`] |
+//! | V_t, SS, DIBL, barrier, long channel, electrical channel length | [`extract`] | [`extract::ramp_figures`], [`extract::extract_long_channel`], [`extract::electrical_length::electrical_length`] |
 //! | closed forms, natural length, short-channel model (pure) | [`theory`] | [`theory::lambda_report`], [`theory::TheoryInputs`] |
 //! | a whole device, its reference, scans, the report type | [`evaluate`] | [`evaluate::Reference::of`], [`evaluate::evaluate`], [`evaluate::scan::scan`] |
 //! | capacitances from the solve, on-current and delay estimates, pitch splits | [`evaluate::capacitance`], [`evaluate::pitch`] | [`evaluate::capacitance::device_capacitance`], [`evaluate::pitch::run_pitch`] |
-//! | plans, parallel sweeps, shards, shortest compliant length | [`sweep`] | [`sweep::run_sweep`], [`sweep::shortest::per_series`] |
+//! | plans, parallel sweeps, shards, shortest compliant length | [`sweep`] | [`sweep::run_sweep`], [`sweep::shortest::per_series`] (interpolated: [`evaluate::shortest_compliant`]) |
 //! | the sweep file model, HDF5 and CSV | [`io`] | [`io::hdf5::write_sweep`], [`io::hdf5::read_sweep`] |
 //! | every text table | [`render`] | [`render::device::device_text`] |
 //! | drawing | [`plot`] | [`plot::sweep_plots`], [`plot::device_plots`] |

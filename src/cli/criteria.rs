@@ -7,10 +7,10 @@ use gatehold::evaluate::{Criteria, CriteriaError};
 /// `--dibl-max`, `--ss-max`, `--vt-rolloff-max` (each over the plan's `[criteria]` key).
 #[derive(Debug, Clone, Default, Args)]
 pub struct CriteriaArgs {
-    /// Screening target on DIBL, mV/V (sweep default: the plan's `[criteria]`; common practice 100, not a standard).
+    /// Screening target on DIBL, mV/V (default: the plan's `[criteria]`; the demo's 100 mV/V; common practice, not a standard).
     #[arg(long, value_name = "MV_PER_V")]
     pub dibl_max: Option<f64>,
-    /// Screening target on the larger of SS at V_DS,lin and V_DS,sat, mV/dec (common practice 80).
+    /// Screening target on the larger of SS at V_DS,lin and V_DS,sat, mV/dec (default: the plan's; the demo's 80).
     #[arg(long, value_name = "MV_PER_DEC")]
     pub ss_max: Option<f64>,
     /// Screening target on |V_t roll-off|, mV (optional).

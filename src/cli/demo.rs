@@ -24,15 +24,9 @@ pub struct DemoArgs {
     /// Points solved at once (default: all cores).
     #[arg(long, short, default_value_t = 0)]
     pub jobs: usize,
-    /// Screening target on DIBL, mV/V (default: the plan's 100; common practice, not a standard).
-    #[arg(long, value_name = "MV_PER_V")]
-    pub dibl_max: Option<f64>,
-    /// Screening target on SS, mV/dec (default: the plan's 80; common practice, not a standard).
-    #[arg(long, value_name = "MV_PER_DEC")]
-    pub ss_max: Option<f64>,
-    /// Screening target on |V_t roll-off|, mV (default: none).
-    #[arg(long, value_name = "MV")]
-    pub vt_rolloff_max: Option<f64>,
+    /// --dibl-max, --ss-max (default: the demo plan's 100 mV/V and 80 mV/dec), --vt-rolloff-max (default: none).
+    #[command(flatten)]
+    pub criteria: super::criteria::CriteriaArgs,
     /// Gate lengths in nm, comma separated (default: the plan's 14 to 60 nm).
     #[arg(long, value_delimiter = ',', value_name = "NM,NM,...")]
     pub lengths: Option<Vec<f64>>,
@@ -46,11 +40,13 @@ pub fn demo(args: &DemoArgs) -> anyhow::Result<Exit> {
     let t0 = Instant::now();
     let options = DemoOptions {
         lengths_nm: args.lengths.clone(),
-        dibl_max_mv_per_v: args.dibl_max,
-        ss_max_mv_per_dec: args.ss_max,
+        dibl_max_mv_per_v: args.criteria.dibl_max,
+        ss_max_mv_per_dec: args.criteria.ss_max,
     };
     let mut plan = demo::plan(&options).context("demo plan")?;
-    plan.criteria = plan.criteria.overridden(None, None, args.vt_rolloff_max)?;
+    plan.criteria = plan
+        .criteria
+        .overridden(None, None, args.criteria.vt_rolloff_max)?;
     std::fs::create_dir_all(&args.out)
         .with_context(|| format!("cannot create {}", args.out.display()))?;
     let sweep_file = args.out.join(SWEEP_FILE);

@@ -7,9 +7,10 @@ use anyhow::{Context, Result};
 use super::exit::Exit;
 use super::progress::Dots;
 use gatehold::device::{load_device, template, Architecture, Scenario};
-use gatehold::evaluate::{evaluate_alone, natural_length, scan::scan};
+use gatehold::evaluate::{evaluate_alone, natural_length, scan::scan_with};
 use gatehold::progress::Silent;
 use gatehold::render;
+use gatehold::theory::short_channel::TheoryLength;
 
 fn load(device: &Path) -> Result<Scenario> {
     load_device(device).with_context(|| format!("device file {}", device.display()))
@@ -75,6 +76,7 @@ pub fn scan_lengths(
     json: bool,
     jobs: Option<usize>,
     criteria: &super::criteria::CriteriaArgs,
+    theory_length: &str,
 ) -> Result<Exit> {
     if lengths.len() > MAX_SCAN_LENGTHS {
         anyhow::bail!(
@@ -89,13 +91,15 @@ pub fn scan_lengths(
     {
         anyhow::bail!("--lengths: {} nm is given twice", d.1);
     }
+    let which = TheoryLength::from_name(theory_length)
+        .with_context(|| format!("--theory-length {theory_length}: use gate or electrical"))?;
     let s = load(device)?;
     let criteria = criteria.over(&Default::default())?;
     let pool = rayon::ThreadPoolBuilder::new()
         .num_threads(super::capped_jobs(jobs.unwrap_or(0)))
         .build()?;
     let dots = Dots::new(!json);
-    let mut r = pool.install(|| scan(&s, lengths, &dots))?;
+    let mut r = pool.install(|| scan_with(&s, lengths, which, &dots))?;
     dots.finish();
     r.judge(&criteria);
     if criteria.is_empty() && !json {

@@ -69,6 +69,9 @@ enum Command {
         jobs: Option<usize>,
         #[command(flatten)]
         criteria: criteria::CriteriaArgs,
+        /// The length the theory columns use: the gate length, or each length's solved L_elec.
+        #[arg(long, value_name = "gate|electrical", default_value = "gate", value_parser = ["gate", "electrical"])]
+        theory_length: String,
     },
     /// Run a plan of geometries in parallel into one HDF5 file.
     Sweep(sweep::SweepArgs),
@@ -131,7 +134,8 @@ pub fn run(cli: Cli) -> anyhow::Result<Exit> {
             json,
             jobs,
             criteria,
-        } => device::scan_lengths(&device, &lengths, json, jobs, &criteria),
+            theory_length,
+        } => device::scan_lengths(&device, &lengths, json, jobs, &criteria, &theory_length),
         Command::Sweep(a) => sweep::sweep(&a),
         Command::Merge(a) => sweep::merge(&a),
         Command::Plot(a) => sweep::plot(&a),

@@ -379,6 +379,15 @@ pub fn shortest_compliant(points: &[LengthPoint], criteria: &Criteria) -> Shorte
         return answer;
     }
     let (lf, lc) = (pf.gate_length_nm, pc.gate_length_nm);
+    for p in points
+        .iter()
+        .filter(|p| !p.ok && p.gate_length_nm > lf && p.gate_length_nm < lc)
+    {
+        answer.notes.push(format!(
+            "interpolated across L_g = {} nm, whose point failed (see its status)",
+            p.gate_length_nm
+        ));
+    }
     let mut best: Option<(Criterion, f64)> = None;
     for &(c, b) in &given {
         let (Some(yf), Some(yc)) = (pf.figure(c), pc.figure(c)) else {
@@ -420,6 +429,25 @@ mod tests {
             vt_rolloff_mv: Some(roll),
             ok: true,
         }
+    }
+
+    #[test]
+    fn command_line_criteria_override_and_bad_values_name_the_option() {
+        let plan = Criteria {
+            dibl_max_mv_per_v: Some(100.0),
+            ss_max_mv_per_dec: Some(80.0),
+            vt_rolloff_max_mv: None,
+        };
+        let c = plan.overridden(Some(90.0), None, Some(50.0)).unwrap();
+        assert_eq!(c.dibl_max_mv_per_v, Some(90.0));
+        assert_eq!(c.ss_max_mv_per_dec, Some(80.0));
+        assert_eq!(c.vt_rolloff_max_mv, Some(50.0));
+        let e = plan
+            .overridden(None, Some(-3.0), None)
+            .unwrap_err()
+            .to_string();
+        assert!(e.contains("--ss-max") && e.contains("-3"), "{e}");
+        assert!(plan.overridden(None, None, Some(f64::NAN)).is_err());
     }
 
     #[test]
@@ -475,6 +503,15 @@ mod tests {
         assert_eq!(a.kind, AnswerKind::NoneCompliant);
         assert_eq!(a.limiting_criterion, Some(Criterion::Dibl));
         assert_eq!(a.gate_length_nm, None);
+        // A failed point inside the bracket is named.
+        let mut with_failed = pts.to_vec();
+        with_failed.push(LengthPoint {
+            ok: false,
+            ..pt(15.0, 1.0, 1.0, 1.0)
+        });
+        let a = shortest_compliant(&with_failed, &c);
+        assert_eq!(a.bracket_nm, Some((10.0, 20.0)));
+        assert!(a.notes[0].contains("15 nm"), "{:?}", a.notes);
         // No criteria: unknown.
         assert_eq!(
             shortest_compliant(&pts, &Criteria::default()).kind,

@@ -242,8 +242,10 @@ const LENGTH_SOLVE_STEP_V: f64 = 0.1;
 /// L_elec is taken where I_D at V_DS,lin is this fraction of the threshold current.
 pub const L_ELEC_CURRENT_RATIO: f64 = 1e-2;
 
-/// The electrical channel length (one extra coupled solve at V_t,lin and
-/// V_DS,lin, walked up from the off-state potential of the lin ramp), the
+/// The electrical channel length (one extra coupled solve at V_DS,lin, walked
+/// up from the off-state potential of the lin ramp to where the current is
+/// [`L_ELEC_CURRENT_RATIO`] of the threshold current, then on to V_t,lin for
+/// the barrier-top density there), the
 /// roll-off split and the off-state current (from the sat ramp's off-state
 /// potential), put into `r`. A solve that does not converge leaves the
 /// figures null and says why in `problems`; a merged junction or an

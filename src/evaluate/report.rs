@@ -169,8 +169,8 @@ pub struct DeviceReport {
     pub theory_dibl_mv_per_v: Option<f64>,
     #[serde(rename = "theory_ss_mV_per_dec")]
     pub theory_ss_mv_per_dec: Option<f64>,
-    /// Electrical channel length N_top int dx/N at V_t,lin and V_DS,lin, nm
-    /// (`extract::electrical_length`; planar solves only).
+    /// Electrical channel length N_top int dx/N at V_DS,lin, two decades
+    /// below the threshold current, nm (`extract::electrical_length`; planar solves only).
     pub l_elec_nm: Option<f64>,
     /// The part of the roll-off from the barrier-top density against the long channel, mV.
     #[serde(rename = "vt_rolloff_electrostatic_mV")]

@@ -10,9 +10,9 @@ use super::device::evaluate;
 use super::reference::{Reference, ReferenceError};
 use super::report::{Method, Status, CAUTION};
 use crate::device::{Architecture, Scenario};
-use crate::extract::electrical_length::{terada_muta, TeradaMuta};
+use crate::extract::electrical_length::{terada_muta, LengthCurve, TeradaMuta};
 use crate::progress::Observer;
-use crate::theory::short_channel::{fit_lambda_from_dibl, LambdaFit};
+use crate::theory::short_channel::{fit_lambda_from_dibl, LambdaFit, TheoryLength};
 
 /// One gate length of a scan.
 #[derive(Debug, Clone, PartialEq, Serialize)]
@@ -70,6 +70,8 @@ pub struct ScanReport {
     /// Lambda fitted to the solved barrier lowering against L.
     pub lambda_fitted_barrier: Option<LambdaFit>,
     pub lambda_fit_note: String,
+    /// The length the theory columns are evaluated at: "gate" (L_g) or "electrical" (L_elec).
+    pub theory_length: &'static str,
     /// Delta L = L_g - L_elec by the channel-resistance method of Terada and
     /// Muta (Jpn. J. Appl. Phys. 18, 953, 1979) across the solved lengths, at
     /// two gate voltages in the subthreshold window of the longest length
@@ -147,14 +149,14 @@ pub enum ScanError {
     Theory(String),
 }
 
+/// A solved length's V_DS,lin curve and its threshold current (A/um).
+type SolvedCurve = (f64, Vec<f64>, Vec<Option<f64>>, f64);
+
 /// Terada-Muta across the solved lengths' V_DS,lin curves (L_g nm, gate
 /// voltages, currents, threshold current A/um): the two gate voltages are the
 /// lowest and highest grid points of the longest length's SS window (1e-3 to
 /// 1e-1 of its threshold current).
-fn terada_muta_of(
-    curves: &[(f64, Vec<f64>, Vec<Option<f64>>, f64)],
-    vds_v: f64,
-) -> Option<TeradaMuta> {
+fn terada_muta_of(curves: &[SolvedCurve], vds_v: f64) -> Option<TeradaMuta> {
     let longest = curves.iter().max_by(|a, b| a.0.total_cmp(&b.0))?;
     let (_, v, i, target) = longest;
     let window: Vec<f64> = v
@@ -167,7 +169,7 @@ fn terada_muta_of(
     if lo == hi {
         return None;
     }
-    let refs: Vec<(f64, &[f64], &[Option<f64>])> = curves
+    let refs: Vec<LengthCurve> = curves
         .iter()
         .map(|(l, v, i, _)| (*l, v.as_slice(), i.as_slice()))
         .collect();
@@ -178,6 +180,17 @@ fn terada_muta_of(
 pub fn scan(
     s: &Scenario,
     lengths: &[f64],
+    observer: &dyn Observer,
+) -> Result<ScanReport, ScanError> {
+    scan_with(s, lengths, TheoryLength::Gate, observer)
+}
+
+/// [`scan`] with the theory columns at the length `theory_length` names
+/// (L_g, or each length's solved L_elec).
+pub fn scan_with(
+    s: &Scenario,
+    lengths: &[f64],
+    theory_length: TheoryLength,
     observer: &dyn Observer,
 ) -> Result<ScanReport, ScanError> {
     if lengths.is_empty() {
@@ -194,8 +207,7 @@ pub fn scan(
         .map_err(|e| ScanError::Theory(e.to_string()))?;
     let inputs = reference.theory.clone().map_err(ScanError::Theory)?;
     let lambda = lam.lambda_numeric_nm;
-    type Curve = (f64, Vec<f64>, Vec<Option<f64>>, f64);
-    let solved: Vec<(ScanRow, Option<Curve>)> = scenarios
+    let solved: Vec<(ScanRow, Option<SolvedCurve>)> = scenarios
         .par_iter()
         .map(|sc| {
             let l = sc.geometry.gate_length_nm;
@@ -247,6 +259,13 @@ pub fn scan(
                             .cloned()
                             .collect();
                         curve = Some((l, r.vgs_v, r.id_lin, r.threshold_current_a_per_um));
+                        if theory_length == TheoryLength::Electrical {
+                            let th = inputs.at_length(l, r.l_elec_nm, theory_length);
+                            let th = th.map_err(|e| problems.push(format!("theory: {e}"))).ok();
+                            row.theory_rolloff_mv = th.map(|t| 1000.0 * t.roll_off_lin_v);
+                            row.theory_dibl_mv_per_v = th.map(|t| t.dibl_mv_per_v);
+                            row.theory_ss_mv_per_dec = th.map(|t| t.ss_mv_per_dec);
+                        }
                         problems.extend(r.problems);
                     }
                     Err(e) => problems.push(format!("solve: {e}")),
@@ -256,7 +275,7 @@ pub fn scan(
             (row, curve)
         })
         .collect();
-    let curves: Vec<Curve> = solved.iter().filter_map(|(_, c)| c.clone()).collect();
+    let curves: Vec<SolvedCurve> = solved.iter().filter_map(|(_, c)| c.clone()).collect();
     let rows: Vec<ScanRow> = solved.into_iter().map(|(r, _)| r).collect();
     let terada_muta = terada_muta_of(&curves, s.bias.vds_lin_v);
     let fit = |pick: &dyn Fn(&ScanRow) -> Option<f64>| {
@@ -286,6 +305,7 @@ pub fn scan(
         lambda_fitted,
         lambda_fitted_barrier,
         terada_muta,
+        theory_length: theory_length.name(),
         lambda_fit_note: "least-squares lines of ln(DIBL) and of ln(barrier lowering) against L over the solved \
                           lengths; lambda = -1/(2 slope) (leading exp(-L/(2 lambda)) term of Liu et al. 1993). \
                           Constant-current DIBL also holds a slowly decaying part (the drain shortens the \

@@ -12,8 +12,9 @@
 //! ```
 //!
 //! i.e. L_elec is how far apart source and drain act at that bias: the
-//! stretch of channel at barrier-top density that the current sees. It is
-//! evaluated at V_G = V_t,lin and V_DS,lin.
+//! stretch of channel at barrier-top density that the current sees. The
+//! caller evaluates it at V_DS,lin two decades below the threshold current
+//! (docs/electrical-length.md says why not at V_t itself).
 
 use crate::device::Polarity;
 use crate::discretize::Problem;
@@ -39,7 +40,7 @@ pub struct ElectricalLength {
     pub resistance_nm3: f64,
 }
 
-/// L_elec of potential `psi` (any bias; the definition holds at V_t,lin and V_DS,lin).
+/// L_elec of potential `psi` (any bias; gatehold reports it at V_DS,lin, two decades below the threshold current).
 pub fn electrical_length(p: &Problem, psi: &[f64], polarity: Polarity) -> ElectricalLength {
     let dens = column_densities(p, psi, polarity);
     let total: f64 = segment_resistances(p, &dens).iter().sum();
@@ -73,7 +74,7 @@ pub fn threshold_density_per_nm2(
 /// The V_t roll-off split, mV.
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct RolloffSplit {
-    /// -SS_long log10(N_top / N_th) + roll-off... see [`split_rolloff`].
+    /// total - SS_long log10(N_top / N_th): see [`split_rolloff`].
     pub electrostatic_mv: f64,
     /// SS_lin log10(L_elec / L_g): negative when L_elec < L_g.
     pub length_mv: f64,
@@ -149,6 +150,9 @@ pub struct TeradaMuta {
     pub lengths: usize,
 }
 
+/// One gate length's V_DS,lin curve: (L_g nm, gate voltages V, |I_D| A/um or None).
+pub type LengthCurve<'a> = (f64, &'a [f64], &'a [Option<f64>]);
+
 /// Least-squares line y = a + b x.
 fn line(pts: &[(f64, f64)]) -> (f64, f64) {
     let n = pts.len() as f64;
@@ -166,11 +170,7 @@ fn line(pts: &[(f64, f64)]) -> (f64, f64) {
 /// (L_g nm, gate voltages, |I_D| A/um or None); `vgs` the two gate voltages
 /// (each must be a sample of every curve, within 1e-9 V). None with fewer
 /// than two lengths, a missing sample, or parallel lines.
-pub fn terada_muta(
-    curves: &[(f64, &[f64], &[Option<f64>])],
-    vds_v: f64,
-    vgs: (f64, f64),
-) -> Option<TeradaMuta> {
+pub fn terada_muta(curves: &[LengthCurve], vds_v: f64, vgs: (f64, f64)) -> Option<TeradaMuta> {
     if curves.len() < 2 {
         return None;
     }
@@ -220,7 +220,7 @@ mod tm_tests {
                     .collect()
             })
             .collect();
-        let c: Vec<(f64, &[f64], &[Option<f64>])> = ls
+        let c: Vec<LengthCurve> = ls
             .iter()
             .zip(&cur)
             .map(|(&l, i)| (l, &v[..], &i[..]))

@@ -16,14 +16,34 @@ const LENGTH_KEY: &str = "geometry.gate_length_nm";
 /// None where no swept length complies. The one place the plots read the
 /// compliance answer from (`sweep::shortest`), so that its source can change
 /// in one line.
-pub fn compliant_lengths(f: &SweepFile, criteria: &Criteria) -> Vec<(String, Option<f64>)> {
+pub fn compliant_lengths(f: &SweepFile, criteria: &Criteria) -> Vec<(String, Option<(f64, bool)>)> {
     if criteria.is_empty() {
         return Vec::new();
     }
     crate::sweep::shortest::per_series(f, criteria)
         .into_iter()
-        .map(|o| (o.label, o.shortest.map(|c| c.gate_length_nm)))
+        .map(|o| {
+            let interpolated = o.answer.kind == crate::evaluate::AnswerKind::Interpolated;
+            (o.label, o.answer.gate_length_nm.map(|x| (x, interpolated)))
+        })
         .collect()
+}
+
+/// The value of a series at `x` (sorted points): exact at a point, else
+/// interpolated between its neighbours (log-linear when both are positive,
+/// as the shortest-length interpolation does for DIBL and roll-off).
+fn value_at(points: &[(f64, f64)], x: f64) -> Option<f64> {
+    if let Some(p) = points.iter().find(|p| (p.0 - x).abs() < 1e-9) {
+        return Some(p.1);
+    }
+    let w = points.windows(2).find(|w| (w[0].0 - x) * (w[1].0 - x) < 0.0)?;
+    let t = (x - w[0].0) / (w[1].0 - w[0].0);
+    let (a, b) = (w[0].1, w[1].1);
+    Some(if a > 0.0 && b > 0.0 {
+        (a.ln() + t * (b.ln() - a.ln())).exp()
+    } else {
+        a + t * (b - a)
+    })
 }
 
 /// Whether row `k` holds theory figures rather than a solve.
@@ -148,7 +168,10 @@ pub fn length_figures(f: &SweepFile, criteria: &Criteria) -> Vec<Figure> {
             let column_theory = pick(&th, &|_| true);
             let answer = compliant.iter().find(|(l, _)| l == label).map(|(_, a)| *a);
             let suffix = match answer {
-                Some(Some(x)) => format!(": compliant from {} nm", short_number(x)),
+                Some(Some((x, true))) => {
+                    format!(": compliant from {} nm (interpolated)", short_number(x))
+                }
+                Some(Some((x, false))) => format!(": compliant from {} nm", short_number(x)),
                 Some(None) => ": none compliant".into(),
                 None => String::new(),
             };
@@ -191,8 +214,9 @@ pub fn length_figures(f: &SweepFile, criteria: &Criteria) -> Vec<Figure> {
                     });
                 }
             }
-            if let Some(Some(x)) = answer {
-                if let Some(&(_, y)) = solved.iter().chain(&as_theory).find(|p| p.0 == x) {
+            if let Some(Some((x, _))) = answer {
+                let on = if solved.is_empty() { &as_theory } else { &solved };
+                if let Some(y) = value_at(on, x) {
                     fig.marks.push(Mark { x, y, colour: c });
                 }
             }

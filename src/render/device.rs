@@ -30,7 +30,7 @@ pub fn device_text(r: &DeviceReport) -> String {
         &mut o,
         "electrical channel length L_elec",
         fmt(r.l_elec_nm, 2),
-        "nm (N_top int dx/N at V_t,lin, V_DS,lin)",
+        "nm (N_top int dx/N at 1e-2 I_th, V_DS,lin)",
     );
     line(&mut o, "EOT", format!("{:.3}", r.eot_nm), "nm");
     line(
@@ -68,6 +68,12 @@ pub fn device_text(r: &DeviceReport) -> String {
         "  electrical-length part SS log10(L_elec/L_g)",
         fmt(r.vt_rolloff_length_mv, 1),
         "mV",
+    );
+    line(
+        &mut o,
+        "  rest (slope difference, charge at V_t)",
+        fmt(r.vt_rolloff_residual_mv, 1),
+        "mV (docs/electrical-length.md)",
     );
     line(
         &mut o,

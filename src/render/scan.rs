@@ -98,6 +98,9 @@ pub fn render_text(r: &ScanReport) -> String {
             Some(r.lambda_numeric_nm),
         ));
     }
+    if r.theory_length == "electrical" {
+        o.push_str("\nTheory columns at L = L_elec (--theory-length electrical; pessimistic: L_elec also counts the spill-over).");
+    }
     o.push_str(&format!("\nTheory: Liu et al., IEEE TED 40(1), 86, 1993, with the numeric natural length.\nCaution: {}\n", r.caution));
     o
 }

@@ -257,7 +257,59 @@ pub struct TheoryInputs {
     pub polarity: Polarity,
 }
 
+/// Which length the model's L stands for.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
+pub enum TheoryLength {
+    /// The printed gate length L_g (the default).
+    #[default]
+    Gate,
+    /// The electrical channel length L_elec from the solve: graded and abrupt
+    /// junctions then get different theory figures. L_elec is shorter than
+    /// the distance the electrostatics act over (it also counts the
+    /// source/drain electrons spilling into the channel ends), so this reads
+    /// pessimistic; it brackets the model from the other side.
+    Electrical,
+}
+
+impl TheoryLength {
+    /// "gate" or "electrical".
+    pub fn name(&self) -> &'static str {
+        match self {
+            TheoryLength::Gate => "gate",
+            TheoryLength::Electrical => "electrical",
+        }
+    }
+
+    /// From "gate" or "electrical".
+    pub fn from_name(s: &str) -> Option<TheoryLength> {
+        match s {
+            "gate" => Some(TheoryLength::Gate),
+            "electrical" => Some(TheoryLength::Electrical),
+            _ => None,
+        }
+    }
+}
+
 impl TheoryInputs {
+    /// The model at the length `which` names: L_g, or `l_elec_nm` (an error
+    /// when the electrical length is asked for and not known).
+    pub fn at_length(
+        &self,
+        gate_length_nm: f64,
+        l_elec_nm: Option<f64>,
+        which: TheoryLength,
+    ) -> Result<ShortChannelEstimate, TheoryError> {
+        match which {
+            TheoryLength::Gate => self.at(gate_length_nm),
+            TheoryLength::Electrical => match l_elec_nm {
+                Some(l) => self.at(l),
+                None => Err(TheoryError::ModelBreakdown(format!(
+                    "no electrical channel length at L_g = {gate_length_nm} nm (not solved)"
+                ))),
+            },
+        }
+    }
+
     /// The model's figures at gate length `l_nm`.
     pub fn at(&self, l_nm: f64) -> Result<ShortChannelEstimate, TheoryError> {
         estimate(
@@ -269,5 +321,36 @@ impl TheoryInputs {
             self.ss_long_mv_per_dec,
             self.polarity,
         )
+    }
+}
+
+#[cfg(test)]
+mod length_tests {
+    use super::*;
+
+    #[test]
+    fn theory_at_the_electrical_length_differs_from_the_gate_length() {
+        let t = TheoryInputs {
+            lambda_nm: 5.0,
+            barrier_v: 0.5,
+            vt_long_v: 0.3,
+            ss_long_mv_per_dec: 60.0,
+            vds_lin_v: 0.05,
+            vds_sat_v: 0.8,
+            polarity: Polarity::N,
+        };
+        let g = t.at_length(40.0, Some(30.0), TheoryLength::Gate).unwrap();
+        let e = t
+            .at_length(40.0, Some(30.0), TheoryLength::Electrical)
+            .unwrap();
+        assert_eq!(g, t.at(40.0).unwrap());
+        assert_eq!(e, t.at(30.0).unwrap());
+        // Shorter L: larger DIBL (Liu et al. 1993 factor decreasing in L).
+        assert!(e.dibl_mv_per_v > g.dibl_mv_per_v);
+        assert!(t.at_length(40.0, None, TheoryLength::Electrical).is_err());
+        assert_eq!(
+            TheoryLength::from_name("electrical"),
+            Some(TheoryLength::Electrical)
+        );
     }
 }
