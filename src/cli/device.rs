@@ -6,7 +6,7 @@ use anyhow::{Context, Result};
 
 use super::exit::Exit;
 use super::progress::Dots;
-use gatehold::device::{load_device, template, Architecture, Scenario};
+use gatehold::device::{load_device, template, Architecture, FinMethod, Scenario};
 use gatehold::evaluate::{evaluate_alone, natural_length, scan::scan};
 use gatehold::progress::Silent;
 use gatehold::render;
@@ -22,8 +22,12 @@ pub fn run(
     curves: Option<&PathBuf>,
     plots: Option<&PathBuf>,
     quiet: bool,
+    fins: Option<FinMethod>,
 ) -> Result<Exit> {
-    let s = load(device)?;
+    let mut s = load(device)?;
+    if let Some(m) = fins {
+        s.fin_method = m;
+    }
     let dots = Dots::new(!quiet && !json);
     let ev = evaluate_alone(&s, &dots)?;
     dots.finish();
@@ -71,8 +75,12 @@ pub fn scan_lengths(
     lengths: &[f64],
     json: bool,
     jobs: Option<usize>,
+    fins: Option<FinMethod>,
 ) -> Result<Exit> {
-    let s = load(device)?;
+    let mut s = load(device)?;
+    if let Some(m) = fins {
+        s.fin_method = m;
+    }
     let pool = rayon::ThreadPoolBuilder::new()
         .num_threads(super::capped_jobs(jobs.unwrap_or(0)))
         .build()?;

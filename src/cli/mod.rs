@@ -12,6 +12,7 @@ use std::path::PathBuf;
 use clap::{Parser, Subcommand};
 
 use exit::Exit;
+use gatehold::device::FinMethod;
 
 #[derive(Parser)]
 #[command(
@@ -42,6 +43,9 @@ enum Command {
         /// No progress on stderr.
         #[arg(long)]
         quiet: bool,
+        /// Fins and wires: "3d-solve" (default) or "theory" (cross-section and theory only).
+        #[arg(long, value_name = "METHOD", value_parser = parse_fins)]
+        fins: Option<FinMethod>,
     },
     /// Natural length of the device's stack or cross-section, numeric beside the closed forms.
     Lambda {
@@ -64,6 +68,9 @@ enum Command {
         /// Worker threads (default: all cores).
         #[arg(long)]
         jobs: Option<usize>,
+        /// Fins and wires: "3d-solve" (default) or "theory" (cross-section and theory only).
+        #[arg(long, value_name = "METHOD", value_parser = parse_fins)]
+        fins: Option<FinMethod>,
     },
     /// Run a plan of geometries in parallel into one HDF5 file.
     Sweep(sweep::SweepArgs),
@@ -78,6 +85,13 @@ enum Command {
         /// bulk | thin-body | double-gate | tri-gate | gate-all-around | capped-fin
         architecture: String,
     },
+}
+
+/// Parses `--fins METHOD` ("3d-solve" or "theory").
+pub fn parse_fins(v: &str) -> Result<FinMethod, String> {
+    FinMethod::from_name(v).ok_or_else(|| {
+        format!("unknown fin method \"{v}\": use \"3d-solve\" (solved in 3D) or \"theory\" (cross-section and theory only)")
+    })
 }
 
 /// The worker count to use for `--jobs N`: 0 means all cores; more than the
@@ -103,14 +117,16 @@ pub fn run(cli: Cli) -> anyhow::Result<Exit> {
             curves,
             plots,
             quiet,
-        } => device::run(&device, json, curves.as_ref(), plots.as_ref(), quiet),
+            fins,
+        } => device::run(&device, json, curves.as_ref(), plots.as_ref(), quiet, fins),
         Command::Lambda { device, json } => device::lambda(&device, json),
         Command::Scan {
             device,
             lengths,
             json,
             jobs,
-        } => device::scan_lengths(&device, &lengths, json, jobs),
+            fins,
+        } => device::scan_lengths(&device, &lengths, json, jobs, fins),
         Command::Sweep(a) => sweep::sweep(&a),
         Command::Merge(a) => sweep::merge(&a),
         Command::Plot(a) => sweep::plot(&a),

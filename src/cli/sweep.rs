@@ -37,6 +37,10 @@ pub struct SweepArgs {
     /// Also write the points table as CSV here.
     #[arg(long)]
     pub csv: Option<PathBuf>,
+    /// Fins and wires: "3d-solve" (default) or "theory" (cross-section and
+    /// theory only, for very large sweeps); written into the stored plan text.
+    #[arg(long, value_name = "METHOD", value_parser = super::parse_fins)]
+    pub fins: Option<gatehold::device::FinMethod>,
     /// Stop after computing this many points (testing resume).
     #[arg(long, hide = true)]
     pub stop_after: Option<usize>,
@@ -72,7 +76,7 @@ fn command_line() -> String {
 
 /// Runs `gatehold sweep`.
 pub fn sweep(args: &SweepArgs) -> anyhow::Result<Exit> {
-    let plan = sweep::load_plan(&args.plan)?;
+    let plan = gatehold::sweep::plan::load_plan_with_fins(&args.plan, args.fins)?;
     let shard: Shard = match &args.shard {
         Some(s) => s.parse()?,
         None => Shard::ALL,

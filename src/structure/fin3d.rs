@@ -16,14 +16,14 @@
 //! material interface, the junctions and the gate edges; fine at every
 //! silicon/dielectric interface, gate edge and junction; coarse in the buried
 //! oxide, spacer and metal), with its own steps ([`FIN3D_FINE_INTERFACE_NM`],
-//! [`FIN3D_FINE_JUNCTION_NM`], the largest step [`FIN3D_STEP_FACTOR`] times
-//! `mesh.max_step_nm`), all divided by `mesh.refinement`. docs/fins-3d.md gives the choices.
+//! [`FIN3D_FINE_JUNCTION_NM`], growth [`FIN3D_GROWTH`], the largest step
+//! [`FIN3D_STEP_FACTOR`] times `mesh.max_step_nm`), all divided by `mesh.refinement`. docs/fins-3d.md gives the choices.
 
 use super::planar::DopingProfile;
 use super::{lookup, AlongChannel, BACK_PLANE, DRAIN, GATE, SOURCE};
 use crate::device::{Architecture, Scenario};
 use crate::discretize::{CellKind, Problem};
-use crate::mesh::{graded_line, Line};
+use crate::mesh::{graded_line_with_growth, Line};
 use crate::physics::Silicon;
 
 /// Finest step at a silicon/dielectric interface of a 3D fin, nm (coarser than
@@ -159,7 +159,7 @@ fn x_line(s: &Scenario, geo: &Geometry3d, doping: &DopingProfile, max_step: f64)
             fine.push((e, FIN3D_FINE_JUNCTION_NM));
         }
     }
-    graded_line(&hard, |p| lookup(&fine, p), max_step, r, 2)
+    graded_line_with_growth(&hard, |p| lookup(&fine, p), max_step, r, 2, FIN3D_GROWTH)
 }
 
 /// Mesh lines across the fin, y >= 0 (the half domain).
@@ -176,7 +176,7 @@ fn y_half_line(s: &Scenario, geo: &Geometry3d, max_step: f64) -> Line {
     if hw + geo.t < geo.y_edge - 1e-9 {
         fine.push((hw + geo.t, FIN3D_FINE_JUNCTION_NM));
     }
-    graded_line(&hard, |p| lookup(&fine, p), max_step, r, 2)
+    graded_line_with_growth(&hard, |p| lookup(&fine, p), max_step, r, 2, FIN3D_GROWTH)
 }
 
 /// Mesh lines in depth, from the top face down.
@@ -203,7 +203,7 @@ fn z_line(s: &Scenario, geo: &Geometry3d, max_step: f64) -> Line {
     } else {
         hard.push(geo.h + s.geometry.box_thickness_nm);
     }
-    graded_line(&hard, |p| lookup(&fine, p), max_step, r, 2)
+    graded_line_with_growth(&hard, |p| lookup(&fine, p), max_step, r, 2, FIN3D_GROWTH)
 }
 
 /// Device width W per fin or wire for currents, nm: the gated silicon
@@ -218,6 +218,9 @@ pub fn fin_width_nm(s: &Scenario) -> f64 {
         _ => 2.0 * h + w,
     }
 }
+
+/// Growth of the 3D mesh step per nm away from a refined line.
+pub const FIN3D_GROWTH: f64 = 0.5;
 
 /// The largest step of the 3D mesh before refinement, nm.
 pub fn fin3d_max_step_nm(s: &Scenario) -> f64 {
