@@ -48,8 +48,11 @@ pub fn run(
                     eprintln!("wrote {}", p.display());
                 }
             }
+            None if ev.solution_3d.is_some() => eprintln!(
+                "no plots: the 3D fin figures (cross-section at the barrier, slice along the leakiest line) are not drawn yet"
+            ),
             None => eprintln!(
-                "no plots: {} devices are predicted from theory, not solved along the channel",
+                "no plots: {} devices evaluated by theory alone (--fins theory) are not solved along the channel",
                 s.architecture
             ),
         }
