@@ -299,3 +299,94 @@ fn p_channel_fin_is_the_mirror_image() {
     println!("largest |psi_n + psi_p| = {worst:.3e} V");
     assert!(worst < 1e-9, "{worst}");
 }
+
+/// The small fin's full report at gate length `l_nm` (3D solve, its own reference).
+fn solve_at(s: &Scenario, l_nm: f64) -> gatehold::evaluate::DeviceReport {
+    let sc = s.with_gate_length(l_nm).unwrap();
+    let ev = gatehold::evaluate::evaluate_alone(&sc, &Silent).unwrap();
+    assert_eq!(ev.report.method, gatehold::evaluate::Method::ThreeDSolve);
+    ev.report
+}
+
+#[test]
+#[ignore = "about 2 minutes: cargo test --release --test fins3d -- --ignored natural_length"]
+fn natural_length_fitted_to_3d_barrier_lowering_matches_the_cross_section() {
+    // lambda fitted to the solved 3D barrier lowering (leading exp(-L/(2 lambda))
+    // term of Liu et al., IEEE TED 40(1), 86, 1993) over L from about 3 to 8
+    // lambda, within 10 % of the numeric cross-section lambda (Frank, Taur and
+    // Wong, IEEE EDL 19(10), 385, 1998; Colinge, Solid-State Electronics 48, 897, 2004).
+    for arch in ["tri-gate", "gate-all-around"] {
+        let s = small_fin(arch);
+        let lam = gatehold::evaluate::natural_length(&s, &Silent)
+            .unwrap()
+            .lambda_numeric_nm;
+        let lengths: Vec<f64> = [3.0, 4.5, 6.0, 8.0].iter().map(|k| k * lam).collect();
+        let r = gatehold::evaluate::scan::scan(&s, &lengths, &Silent).unwrap();
+        let fit = r.lambda_fitted_barrier.expect("barrier fit");
+        println!(
+            "{arch}: lambda numeric (cross-section) {lam:.3} nm, fitted to the 3D barrier lowering {:.3} nm (R^2 {:.4}) over L = {lengths:.1?} nm",
+            fit.lambda_nm, fit.r_squared
+        );
+        assert!(
+            (fit.lambda_nm / lam - 1.0).abs() < 0.10,
+            "{arch}: fitted {} vs numeric {lam}",
+            fit.lambda_nm
+        );
+    }
+}
+
+#[test]
+#[ignore = "several minutes: cargo test --release --test fins3d -- --ignored long_channel"]
+fn long_tri_gate_approaches_the_cross_section_pao_sah_threshold() {
+    // Pao and Sah, Solid-State Electronics 9, 927, 1966: a long channel's
+    // threshold is the cross-section's uniform-channel V_t,long; the 3D solve
+    // approaches it, the gap under 1 mV at 1 um and shrinking with L.
+    let mut s = small_fin("tri-gate");
+    s.mesh.max_step_nm = 2.0;
+    let gaps: Vec<f64> = [500.0, 1000.0]
+        .iter()
+        .map(|&l| {
+            let r = solve_at(&s, l);
+            let gap = 1000.0 * (r.vt_lin_v.unwrap() - r.vt_long_v.unwrap());
+            println!(
+                "L = {l} nm: V_t,lin {:?} V, V_t,long {:?} V, gap {gap:.4} mV ({} nodes)",
+                r.vt_lin_v, r.vt_long_v, r.nodes
+            );
+            gap.abs()
+        })
+        .collect();
+    assert!(gaps[1] < gaps[0], "gaps {gaps:?}");
+    assert!(gaps[1] < 1.0, "gap at 1 um {} mV", gaps[1]);
+}
+
+#[test]
+#[ignore = "several minutes: cargo test --release --test fins3d -- --ignored mesh_converged"]
+fn default_3d_mesh_is_converged_per_fin_architecture() {
+    // Common practice (mesh refinement study): V_t within 1 mV and DIBL within
+    // 3 % of a mesh twice as fine (mesh.refinement = 2).
+    for arch in ["tri-gate", "gate-all-around", "capped-fin"] {
+        let mut s = small_fin(arch);
+        s.mesh.max_step_nm = 0.5;
+        if arch == "capped-fin" {
+            s.geometry.cap_thickness_nm = 3.0;
+        }
+        let a = solve_at(&s, 20.0);
+        let mut fine = s.clone();
+        fine.mesh.refinement = 2.0;
+        let b = solve_at(&fine, 20.0);
+        let dvt = 1000.0 * (a.vt_lin_v.unwrap() - b.vt_lin_v.unwrap());
+        let ddibl = a.dibl_mv_per_v.unwrap() / b.dibl_mv_per_v.unwrap() - 1.0;
+        println!(
+            "{arch}: V_t {:.5} vs {:.5} V ({dvt:.3} mV), DIBL {:.2} vs {:.2} mV/V ({:.2} %), nodes {} vs {}",
+            a.vt_lin_v.unwrap(),
+            b.vt_lin_v.unwrap(),
+            a.dibl_mv_per_v.unwrap(),
+            b.dibl_mv_per_v.unwrap(),
+            100.0 * ddibl,
+            a.nodes,
+            b.nodes
+        );
+        assert!(dvt.abs() < 1.0, "{arch}: {dvt} mV");
+        assert!(ddibl.abs() < 0.03, "{arch}: {ddibl}");
+    }
+}
