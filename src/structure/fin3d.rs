@@ -320,11 +320,11 @@ mod tests {
     fn volume(p: &Problem, pred: impl Fn(CellKind) -> bool) -> f64 {
         let (hx, hy, hz) = (p.x.steps(), p.y.steps(), p.z.steps());
         let mut v = 0.0;
-        for cz in 0..p.nz - 1 {
-            for cy in 0..p.ny - 1 {
-                for cx in 0..p.nx - 1 {
+        for (cz, dz) in hz.iter().enumerate() {
+            for (cy, dy) in hy.iter().enumerate() {
+                for (cx, dx) in hx.iter().enumerate() {
                     if pred(p.cell_3d(cx, cy, cz)) {
-                        v += hx[cx] * hy[cy] * hz[cz];
+                        v += dx * dy * dz;
                     }
                 }
             }
