@@ -381,7 +381,7 @@ fn two_term_fit_recovers_a_known_lambda() {
 }
 
 #[test]
-#[ignore = "several minutes: cargo test --release --test fins3d -- --ignored long_channel"]
+#[ignore = "several minutes: cargo test --release --test fins3d -- --ignored long_tri_gate"]
 fn long_tri_gate_approaches_the_cross_section_pao_sah_threshold() {
     // Pao and Sah, Solid-State Electronics 9, 927, 1966: a long channel's
     // threshold is the cross-section's uniform-channel V_t,long; the 3D solve
@@ -405,7 +405,7 @@ fn long_tri_gate_approaches_the_cross_section_pao_sah_threshold() {
 }
 
 #[test]
-#[ignore = "several minutes: cargo test --release --test fins3d -- --ignored mesh_converged"]
+#[ignore = "several minutes: cargo test --release --test fins3d -- --ignored mesh_is_converged"]
 fn default_3d_mesh_is_converged_per_fin_architecture() {
     // Common practice (mesh refinement study): V_t within 1 mV and DIBL within
     // 3 % of a mesh twice as fine (mesh.refinement = 2).
