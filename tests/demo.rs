@@ -1,5 +1,5 @@
-//! `gatehold demo`: the binary on a reduced set of lengths (the full demo
-//! takes about 20 s on two cores, long beside the other tests), and its
+//! `gatehold demo`: the binary on a reduced set of lengths (the full demo,
+//! with the tri-gate solved in 3D, is long beside the other tests), and its
 //! handling of a bad option.
 
 use gatehold::demo::{SUMMARY_FILE, SWEEP_FILE};
@@ -115,7 +115,7 @@ fn reduced_demo_file_summary_and_plots_agree() {
             None => assert!(line.contains("none in the range"), "{line}"),
         }
         let method = if *arch == "tri-gate" {
-            "theory"
+            "3d-solve"
         } else {
             "2d-solve"
         };

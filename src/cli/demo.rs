@@ -11,6 +11,7 @@ use clap::Args;
 use super::exit::Exit;
 use super::progress::Bar;
 use gatehold::demo::{self, DemoOptions, SUMMARY_FILE, SWEEP_FILE};
+use gatehold::device::FinMethod;
 use gatehold::evaluate::Method;
 use gatehold::render::summary::{demo_text, DemoSummary};
 use gatehold::sweep::{self, SweepOptions};
@@ -33,6 +34,9 @@ pub struct DemoArgs {
     /// No progress bar.
     #[arg(long, short)]
     pub quiet: bool,
+    /// The tri-gate: "3d-solve" (default) or "theory" (cross-section and theory only).
+    #[arg(long, value_name = "METHOD", value_parser = super::parse_fins)]
+    pub fins: Option<gatehold::device::FinMethod>,
 }
 
 /// Runs `gatehold demo`: prints the summary on stdout.
@@ -42,6 +46,7 @@ pub fn demo(args: &DemoArgs) -> anyhow::Result<Exit> {
         lengths_nm: args.lengths.clone(),
         dibl_max_mv_per_v: args.criteria.dibl_max,
         ss_max_mv_per_dec: args.criteria.ss_max,
+        fins: args.fins,
     };
     let mut plan = demo::plan(&options).context("demo plan")?;
     plan.criteria = plan
@@ -74,12 +79,11 @@ pub fn demo(args: &DemoArgs) -> anyhow::Result<Exit> {
     let series = sweep::shortest::per_series(&file, &plan.criteria)
         .into_iter()
         .map(|o| {
-            let planar = plan.points[file.rows[o.rows[0]].index]
-                .scenario
-                .architecture
-                .is_planar();
-            let method = if planar {
+            let s = &plan.points[file.rows[o.rows[0]].index].scenario;
+            let method = if s.architecture.is_planar() {
                 Method::TwoDSolve
+            } else if s.fin_method == FinMethod::Solve3d {
+                Method::ThreeDSolve
             } else {
                 Method::Theory
             };

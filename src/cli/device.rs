@@ -6,7 +6,7 @@ use anyhow::{Context, Result};
 
 use super::exit::Exit;
 use super::progress::Dots;
-use gatehold::device::{load_device, template, Architecture, Scenario};
+use gatehold::device::{load_device, template, Architecture, FinMethod, Scenario};
 use gatehold::evaluate::{evaluate_alone, natural_length, scan::scan_with};
 use gatehold::progress::Silent;
 use gatehold::render;
@@ -23,8 +23,12 @@ pub fn run(
     curves: Option<&PathBuf>,
     plots: Option<&PathBuf>,
     quiet: bool,
+    fins: Option<FinMethod>,
 ) -> Result<Exit> {
-    let s = load(device)?;
+    let mut s = load(device)?;
+    if let Some(m) = fins {
+        s.fin_method = m;
+    }
     let dots = Dots::new(!quiet && !json);
     let ev = evaluate_alone(&s, &dots)?;
     dots.finish();
@@ -45,8 +49,11 @@ pub fn run(
                     eprintln!("wrote {}", p.display());
                 }
             }
+            None if ev.solution_3d.is_some() => eprintln!(
+                "no plots: the 3D fin figures (cross-section at the barrier, slice along the leakiest line) are not drawn yet"
+            ),
             None => eprintln!(
-                "no plots: {} devices are predicted from theory, not solved along the channel",
+                "no plots: {} devices evaluated by theory alone (--fins theory) are not solved along the channel",
                 s.architecture
             ),
         }
@@ -77,6 +84,7 @@ pub fn scan_lengths(
     jobs: Option<usize>,
     criteria: &super::criteria::CriteriaArgs,
     theory_length: &str,
+    fins: Option<FinMethod>,
 ) -> Result<Exit> {
     if lengths.len() > MAX_SCAN_LENGTHS {
         anyhow::bail!(
@@ -93,7 +101,10 @@ pub fn scan_lengths(
     }
     let which = TheoryLength::from_name(theory_length)
         .with_context(|| format!("--theory-length {theory_length}: use gate or electrical"))?;
-    let s = load(device)?;
+    let mut s = load(device)?;
+    if let Some(m) = fins {
+        s.fin_method = m;
+    }
     let criteria = criteria.over(&Default::default())?;
     let pool = rayon::ThreadPoolBuilder::new()
         .num_threads(super::capped_jobs(jobs.unwrap_or(0)))

@@ -15,6 +15,7 @@ use std::path::PathBuf;
 use clap::{Parser, Subcommand};
 
 use exit::Exit;
+use gatehold::device::FinMethod;
 
 #[derive(Parser)]
 #[command(
@@ -45,6 +46,9 @@ enum Command {
         /// No progress on stderr.
         #[arg(long)]
         quiet: bool,
+        /// Fins and wires: "3d-solve" (default) or "theory" (cross-section and theory only).
+        #[arg(long, value_name = "METHOD", value_parser = parse_fins)]
+        fins: Option<FinMethod>,
     },
     /// Natural length of the device's stack or cross-section, numeric beside the closed forms.
     Lambda {
@@ -72,6 +76,9 @@ enum Command {
         /// The length the theory columns use: the gate length, or each length's solved L_elec.
         #[arg(long, value_name = "gate|electrical", default_value = "gate", value_parser = ["gate", "electrical"])]
         theory_length: String,
+        /// Fins and wires: "3d-solve" (default) or "theory" (cross-section and theory only).
+        #[arg(long, value_name = "METHOD", value_parser = parse_fins)]
+        fins: Option<FinMethod>,
     },
     /// Run a plan of geometries in parallel into one HDF5 file.
     Sweep(sweep::SweepArgs),
@@ -103,6 +110,13 @@ enum Command {
     },
 }
 
+/// Parses `--fins METHOD` ("3d-solve" or "theory").
+pub fn parse_fins(v: &str) -> Result<FinMethod, String> {
+    FinMethod::from_name(v).ok_or_else(|| {
+        format!("unknown fin method \"{v}\": use \"3d-solve\" (solved in 3D) or \"theory\" (cross-section and theory only)")
+    })
+}
+
 /// The worker count to use for `--jobs N`: 0 means all cores; more than the
 /// machine's cores is capped at the core count, with a warning on stderr.
 pub fn capped_jobs(jobs: usize) -> usize {
@@ -126,7 +140,8 @@ pub fn run(cli: Cli) -> anyhow::Result<Exit> {
             curves,
             plots,
             quiet,
-        } => device::run(&device, json, curves.as_ref(), plots.as_ref(), quiet),
+            fins,
+        } => device::run(&device, json, curves.as_ref(), plots.as_ref(), quiet, fins),
         Command::Lambda { device, json } => device::lambda(&device, json),
         Command::Scan {
             device,
@@ -135,7 +150,8 @@ pub fn run(cli: Cli) -> anyhow::Result<Exit> {
             jobs,
             criteria,
             theory_length,
-        } => device::scan_lengths(&device, &lengths, json, jobs, &criteria, &theory_length),
+            fins,
+        } => device::scan_lengths(&device, &lengths, json, jobs, &criteria, &theory_length, fins),
         Command::Sweep(a) => sweep::sweep(&a),
         Command::Merge(a) => sweep::merge(&a),
         Command::Plot(a) => sweep::plot(&a),

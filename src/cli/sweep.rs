@@ -39,6 +39,10 @@ pub struct SweepArgs {
     pub csv: Option<PathBuf>,
     #[command(flatten)]
     pub criteria: super::criteria::CriteriaArgs,
+    /// Fins and wires: "3d-solve" (default) or "theory" (cross-section and
+    /// theory only, for very large sweeps); written into the stored plan text.
+    #[arg(long, value_name = "METHOD", value_parser = super::parse_fins)]
+    pub fins: Option<gatehold::device::FinMethod>,
     /// Stop after computing this many points (testing resume).
     #[arg(long, hide = true)]
     pub stop_after: Option<usize>,
@@ -88,7 +92,7 @@ fn command_line() -> String {
 
 /// Runs `gatehold sweep`.
 pub fn sweep(args: &SweepArgs) -> anyhow::Result<Exit> {
-    let mut plan = sweep::load_plan(&args.plan)?;
+    let mut plan = gatehold::sweep::plan::load_plan_with_fins(&args.plan, args.fins)?;
     plan.criteria = args.criteria.over(&plan.criteria)?;
     let shard = args.shard.unwrap_or(Shard::ALL);
     let opts = SweepOptions {

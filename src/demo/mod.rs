@@ -36,6 +36,8 @@ pub struct DemoOptions {
     pub dibl_max_mv_per_v: Option<f64>,
     /// Screening target: the larger of SS at V_DS,lin and V_DS,sat at most this, mV/dec (None: the plan's).
     pub ss_max_mv_per_dec: Option<f64>,
+    /// How the fins are evaluated (None: the plan's, i.e. the 3D solve).
+    pub fins: Option<crate::device::FinMethod>,
 }
 
 impl DemoOptions {
@@ -101,7 +103,10 @@ pub fn plan_text(o: &DemoOptions) -> Result<String, PlanError> {
 
 /// The parsed, validated demo plan.
 pub fn plan(o: &DemoOptions) -> Result<Plan, PlanError> {
-    let text = plan_text(o)?;
+    let mut text = plan_text(o)?;
+    if let Some(m) = o.fins {
+        text = crate::sweep::plan::with_fins(&text, m)?;
+    }
     parse_plan_with(&text, &|name: &str| {
         if name == BASE_DEVICE_NAME {
             Ok(BASE_DEVICE.to_string())

@@ -1,5 +1,6 @@
-//! Gate-length scans: the 2D solve at each length beside the theory from the
-//! natural length (planar devices), or the theory alone (fins and wires).
+//! Gate-length scans: the 2D (planar) or 3D (fins and wires) solve at each
+//! length beside the theory from the natural length, or, chosen explicitly
+//! for fins, the theory alone.
 //! The length-independent [`Reference`] is solved once for the whole scan.
 
 use rayon::prelude::*;
@@ -9,7 +10,7 @@ use super::criteria::{shortest_compliant, Criteria, LengthPoint, ShortestAnswer}
 use super::device::evaluate;
 use super::reference::{Reference, ReferenceError};
 use super::report::{Method, Status, CAUTION};
-use crate::device::{Architecture, Scenario};
+use crate::device::{Architecture, FinMethod, Scenario};
 use crate::extract::electrical_length::{terada_muta, LengthCurve, TeradaMuta};
 use crate::progress::Observer;
 use crate::theory::short_channel::{fit_lambda_from_dibl, LambdaFit, TheoryLength};
@@ -18,7 +19,7 @@ use crate::theory::short_channel::{fit_lambda_from_dibl, LambdaFit, TheoryLength
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct ScanRow {
     pub gate_length_nm: f64,
-    /// From the 2D along-channel solve (null for fins and wires, or if it failed).
+    /// From the 2D or 3D solve (null for fins evaluated by theory alone, or if it failed).
     #[serde(rename = "vt_lin_V")]
     pub vt_lin_v: Option<f64>,
     #[serde(rename = "vt_rolloff_mV")]
@@ -207,6 +208,13 @@ pub fn scan_with(
         .map_err(|e| ScanError::Theory(e.to_string()))?;
     let inputs = reference.theory.clone().map_err(ScanError::Theory)?;
     let lambda = lam.lambda_numeric_nm;
+    let method = if s.architecture.is_planar() {
+        Method::TwoDSolve
+    } else if s.fin_method == FinMethod::Solve3d {
+        Method::ThreeDSolve
+    } else {
+        Method::Theory
+    };
     let solved: Vec<(ScanRow, Option<SolvedCurve>)> = scenarios
         .par_iter()
         .map(|sc| {
@@ -237,7 +245,7 @@ pub fn scan_with(
                 status: Status::Ok,
             };
             let mut curve = None;
-            if sc.architecture.is_planar() {
+            if method != Method::Theory {
                 match evaluate(sc, &reference, observer) {
                     Ok(ev) => {
                         let r = ev.report;
@@ -294,11 +302,7 @@ pub fn scan_with(
     Ok(ScanReport {
         name: s.name.clone(),
         architecture: s.architecture,
-        method: if s.architecture.is_planar() {
-            Method::TwoDSolve
-        } else {
-            Method::Theory
-        },
+        method,
         lambda_numeric_nm: lambda,
         lambda_dielectric_path_nm: lam.lambda_dielectric_path_nm,
         lambda_closed_forms: lam.lambda_closed_forms,

@@ -140,6 +140,18 @@ pub fn graded_line(
     refinement: f64,
     min_cells: usize,
 ) -> Line {
+    graded_line_with_growth(hard_points, fine, max_step, refinement, min_cells, GROWTH)
+}
+
+/// [`graded_line`] with its own growth of the step per nm (before refinement).
+pub fn graded_line_with_growth(
+    hard_points: &[f64],
+    fine: impl Fn(f64) -> Option<f64>,
+    max_step: f64,
+    refinement: f64,
+    min_cells: usize,
+    growth: f64,
+) -> Line {
     let max_step = max_step / refinement;
     let mut pts: Vec<f64> = hard_points.to_vec();
     pts.sort_by(|a, b| a.partial_cmp(b).unwrap());
@@ -157,7 +169,7 @@ pub fn graded_line(
                 start_step: end_step(w[0]),
                 end_step: end_step(w[1]),
                 max_step,
-                growth: GROWTH / refinement,
+                growth: growth / refinement,
             }
         })
         .collect();

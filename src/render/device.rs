@@ -133,6 +133,14 @@ pub fn device_text(r: &DeviceReport) -> String {
         fmt(r.leakiest_depth_nm, 2),
         "nm below the top Si surface",
     );
+    if r.leakiest_y_nm.is_some() {
+        line(
+            &mut o,
+            "leakiest path across the fin (y)",
+            fmt(r.leakiest_y_nm, 2),
+            "nm from the fin centre",
+        );
+    }
     line(
         &mut o,
         "natural length (numeric)",

@@ -110,7 +110,8 @@ pub fn demo_text(r: &DemoSummary) -> String {
         ));
     }
     t.push_str(
-        "\nmethod: 2d-solve = along-channel 2D nonlinear Poisson solve at each length; theory = the\n\
+        "\nmethod: 2d-solve = along-channel 2D nonlinear Poisson solve at each length; 3d-solve = the\n\
+         fin solved in 3D along the channel at each length (the same model and extraction); theory = the\n\
          long-channel cross-section solve with the Liu et al. (IEEE TED 40(1), 86, 1993) model from the\n\
          numeric natural length (dashed curves in the figures, for every architecture).\n",
     );

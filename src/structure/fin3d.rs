@@ -15,23 +15,24 @@
 //! Mesh: rectilinear and graded as the 2D sections (hard lines at every
 //! material interface, the junctions and the gate edges; fine at every
 //! silicon/dielectric interface, gate edge and junction; coarse in the buried
-//! oxide, spacer and metal), with its own steps ([`FIN3D_FINE_INTERFACE_NM`],
-//! [`FIN3D_FINE_JUNCTION_NM`], the largest step [`FIN3D_STEP_FACTOR`] times
-//! `mesh.max_step_nm`), all divided by `mesh.refinement`. docs/fins-3d.md gives the choices.
+//! oxide, spacer and metal), with its own steps ([`FIN3D_FINE_INTERFACE`],
+//! [`FIN3D_FINE_JUNCTION`] times `mesh.max_step_nm`, growth [`FIN3D_GROWTH`], the largest step
+//! [`FIN3D_STEP_FACTOR`] times `mesh.max_step_nm`), all divided by `mesh.refinement`. docs/fins-3d.md gives the choices.
 
 use super::planar::DopingProfile;
 use super::{lookup, AlongChannel, BACK_PLANE, DRAIN, GATE, SOURCE};
 use crate::device::{Architecture, Scenario};
 use crate::discretize::{CellKind, Problem};
-use crate::mesh::{graded_line, Line};
+use crate::mesh::{graded_line_with_growth, Line};
 use crate::physics::Silicon;
 
-/// Finest step at a silicon/dielectric interface of a 3D fin, nm (coarser than
-/// the 2D sections' 0.02 nm: subthreshold electrostatics of an undoped fin
-/// vary on the scale of the body; checked by the mesh-convergence test).
-pub const FIN3D_FINE_INTERFACE_NM: f64 = 0.3;
-/// Finest step at the gate edges and junctions of a 3D fin, nm.
-pub const FIN3D_FINE_JUNCTION_NM: f64 = 0.5;
+/// Finest step at a silicon/dielectric interface of a 3D fin, in units of
+/// `mesh.max_step_nm` (0.3 nm at the default 0.5 nm; coarser than the 2D
+/// sections' 0.02 nm: subthreshold electrostatics of a lightly doped fin vary
+/// on the scale of the body; checked by the mesh-convergence test).
+pub const FIN3D_FINE_INTERFACE: f64 = 0.6;
+/// Finest step at the gate edges and junctions of a 3D fin, in units of `mesh.max_step_nm`.
+pub const FIN3D_FINE_JUNCTION: f64 = 1.0;
 /// The 3D mesh's largest step is this times `mesh.max_step_nm`.
 pub const FIN3D_STEP_FACTOR: f64 = 3.0;
 /// Thickness of the metal slab standing for the back plane under the buried oxide, nm.
@@ -151,46 +152,45 @@ impl Geometry3d {
 fn x_line(s: &Scenario, geo: &Geometry3d, doping: &DopingProfile, max_step: f64) -> Line {
     let r = s.mesh.refinement;
     let (g0, g1) = geo.gate;
+    let fj = FIN3D_FINE_JUNCTION * s.mesh.max_step_nm;
     let mut hard = vec![0.0, g0, g1, geo.total_x];
-    let mut fine = vec![(g0, FIN3D_FINE_JUNCTION_NM), (g1, FIN3D_FINE_JUNCTION_NM)];
+    let mut fine = vec![(g0, fj), (g1, fj)];
     for e in [doping.source_edge, doping.drain_edge] {
         if e > 1e-6 && e < geo.total_x - 1e-6 {
             hard.push(e);
-            fine.push((e, FIN3D_FINE_JUNCTION_NM));
+            fine.push((e, fj));
         }
     }
-    graded_line(&hard, |p| lookup(&fine, p), max_step, r, 2)
+    graded_line_with_growth(&hard, |p| lookup(&fine, p), max_step, r, 2, FIN3D_GROWTH)
 }
 
 /// Mesh lines across the fin, y >= 0 (the half domain).
 fn y_half_line(s: &Scenario, geo: &Geometry3d, max_step: f64) -> Line {
     let r = s.mesh.refinement;
     let hw = geo.half_w;
+    let (fi, fj) = fine_steps(s);
     let mut hard = vec![0.0, hw, geo.y_edge];
-    let mut fine = vec![(hw, FIN3D_FINE_INTERFACE_NM)];
+    let mut fine = vec![(hw, fi)];
     for &c in &geo.cum {
         if hw + c < geo.y_edge - 1e-9 {
             hard.push(hw + c);
         }
     }
     if hw + geo.t < geo.y_edge - 1e-9 {
-        fine.push((hw + geo.t, FIN3D_FINE_JUNCTION_NM));
+        fine.push((hw + geo.t, fj));
     }
-    graded_line(&hard, |p| lookup(&fine, p), max_step, r, 2)
+    graded_line_with_growth(&hard, |p| lookup(&fine, p), max_step, r, 2, FIN3D_GROWTH)
 }
 
 /// Mesh lines in depth, from the top face down.
 fn z_line(s: &Scenario, geo: &Geometry3d, max_step: f64) -> Line {
     let r = s.mesh.refinement;
     let core_top = -geo.tc;
+    let (fi, fj) = fine_steps(s);
     let mut hard = vec![geo.z_top, core_top, 0.0, geo.h, geo.z_bottom(s)];
-    let mut fine = vec![
-        (0.0, FIN3D_FINE_INTERFACE_NM),
-        (geo.h, FIN3D_FINE_INTERFACE_NM),
-        (core_top - geo.t, FIN3D_FINE_JUNCTION_NM),
-    ];
+    let mut fine = vec![(0.0, fi), (geo.h, fi), (core_top - geo.t, fj)];
     if geo.tc > 0.0 {
-        fine.push((core_top, FIN3D_FINE_INTERFACE_NM));
+        fine.push((core_top, fi));
     }
     for &c in &geo.cum {
         hard.push(core_top - c);
@@ -199,11 +199,11 @@ fn z_line(s: &Scenario, geo: &Geometry3d, max_step: f64) -> Line {
         for &c in &geo.cum {
             hard.push(geo.h + c);
         }
-        fine.push((geo.h + geo.t, FIN3D_FINE_JUNCTION_NM));
+        fine.push((geo.h + geo.t, fj));
     } else {
         hard.push(geo.h + s.geometry.box_thickness_nm);
     }
-    graded_line(&hard, |p| lookup(&fine, p), max_step, r, 2)
+    graded_line_with_growth(&hard, |p| lookup(&fine, p), max_step, r, 2, FIN3D_GROWTH)
 }
 
 /// Device width W per fin or wire for currents, nm: the gated silicon
@@ -218,6 +218,17 @@ pub fn fin_width_nm(s: &Scenario) -> f64 {
         _ => 2.0 * h + w,
     }
 }
+
+/// Finest steps (interface, junction) of the 3D mesh before refinement, nm.
+fn fine_steps(s: &Scenario) -> (f64, f64) {
+    (
+        FIN3D_FINE_INTERFACE * s.mesh.max_step_nm,
+        FIN3D_FINE_JUNCTION * s.mesh.max_step_nm,
+    )
+}
+
+/// Growth of the 3D mesh step per nm away from a refined line.
+pub const FIN3D_GROWTH: f64 = 0.5;
 
 /// The largest step of the 3D mesh before refinement, nm.
 pub fn fin3d_max_step_nm(s: &Scenario) -> f64 {
@@ -310,11 +321,11 @@ mod tests {
     fn volume(p: &Problem, pred: impl Fn(CellKind) -> bool) -> f64 {
         let (hx, hy, hz) = (p.x.steps(), p.y.steps(), p.z.steps());
         let mut v = 0.0;
-        for cz in 0..p.nz - 1 {
-            for cy in 0..p.ny - 1 {
-                for cx in 0..p.nx - 1 {
+        for (cz, dz) in hz.iter().enumerate() {
+            for (cy, dy) in hy.iter().enumerate() {
+                for (cx, dx) in hx.iter().enumerate() {
                     if pred(p.cell_3d(cx, cy, cz)) {
-                        v += hx[cx] * hy[cy] * hz[cz];
+                        v += dx * dy * dz;
                     }
                 }
             }

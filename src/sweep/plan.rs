@@ -15,10 +15,12 @@ use std::path::{Path, PathBuf};
 
 use toml::Value;
 
-use crate::device::{closest, known_keys, parse_table, scenario_from_table, DeviceError, Scenario};
+use crate::device::{
+    closest, known_keys, parse_table, scenario_from_table, DeviceError, FinMethod, Scenario,
+};
 
 /// Keys a plan file may hold at its top level.
-pub const PLAN_KEYS: &[&str] = &["base", "axes", "zip", "output", "criteria"];
+pub const PLAN_KEYS: &[&str] = &["base", "axes", "zip", "output", "criteria", "fins"];
 /// Keys of `[output]`.
 pub const OUTPUT_KEYS: &[&str] = &["maps"];
 /// Keys of `[criteria]` (screening pass/fail thresholds; each optional).
@@ -302,6 +304,7 @@ pub fn parse_plan_with(text: &str, read_base: &BaseReader<'_>) -> Result<Plan, P
     }
 
     let criteria = parse_criteria(&root)?;
+    let fins = parse_fins(&root)?;
     let total = axes
         .iter()
         .try_fold(1usize, |acc, a| acc.checked_mul(a.len()))
@@ -335,11 +338,12 @@ pub fn parse_plan_with(text: &str, read_base: &BaseReader<'_>) -> Result<Plan, P
                 values.push(v);
             }
         }
-        let scenario = scenario_from_table(&table).map_err(|error| PlanError::Point {
+        let mut scenario = scenario_from_table(&table).map_err(|error| PlanError::Point {
             index,
             values: describe(&cols, &values),
             error,
         })?;
+        scenario.fin_method = fins;
         points.push(PlanPoint {
             index,
             values,
@@ -365,6 +369,63 @@ pub fn criteria_of_text(text: &str) -> Result<Criteria, PlanError> {
         .parse()
         .map_err(|e: toml::de::Error| PlanError::Syntax(e.to_string()))?;
     parse_criteria(&root)
+}
+
+/// The plan key `fins` ("3d-solve", the default, or "theory" for very large sweeps).
+fn parse_fins(root: &toml::Table) -> Result<FinMethod, PlanError> {
+    match root.get("fins") {
+        None => Ok(FinMethod::default()),
+        Some(Value::String(v)) => FinMethod::from_name(v).ok_or_else(|| {
+            invalid(
+                "fins",
+                v,
+                "must be \"3d-solve\" (fins and wires solved in 3D) or \"theory\" (cross-section and theory only)",
+            )
+        }),
+        Some(other) => Err(invalid(
+            "fins",
+            other,
+            "must be a string: \"3d-solve\" or \"theory\"",
+        )),
+    }
+}
+
+/// Plan text with the `fins` key set to `m` (from the `--fins` option): put
+/// in when absent, so that the stored plan text names the method; a plan
+/// that already names another method is an error naming both.
+pub fn with_fins(text: &str, m: FinMethod) -> Result<String, PlanError> {
+    let root: toml::Table = text
+        .parse()
+        .map_err(|e: toml::de::Error| PlanError::Syntax(e.to_string()))?;
+    match root.get("fins") {
+        None => Ok(format!("fins = \"{}\"  # from --fins\n{text}", m.name())),
+        Some(_) if parse_fins(&root)? == m => Ok(text.to_string()),
+        Some(v) => Err(invalid(
+            "fins",
+            v,
+            format!(
+                "the plan says this but --fins says \"{}\"; drop one",
+                m.name()
+            ),
+        )),
+    }
+}
+
+/// [`load_plan`] with the `--fins` option applied ([`with_fins`]).
+pub fn load_plan_with_fins(path: &Path, fins: Option<FinMethod>) -> Result<Plan, PlanError> {
+    let Some(m) = fins else {
+        return load_plan(path);
+    };
+    let text = crate::device::read_input_file(path)
+        .map_err(|(path, reason)| PlanError::Io { path, reason })?;
+    let dir = path
+        .parent()
+        .map(Path::to_path_buf)
+        .unwrap_or_else(|| PathBuf::from("."));
+    let mut plan = parse_plan(&with_fins(&text, m)?, &dir)?;
+    plan.inputs[0].file = path.display().to_string();
+    plan.input_paths.insert(0, path.to_path_buf());
+    Ok(plan)
 }
 
 fn parse_criteria(root: &toml::Table) -> Result<Criteria, PlanError> {
