@@ -23,7 +23,11 @@ pub fn run(
     plots: Option<&PathBuf>,
     quiet: bool,
 ) -> Result<Exit> {
-    let s = load(device)?;
+    let mut s = load(device)?;
+    if curves.is_some() || plots.is_some() {
+        // The curves and plots show the whole I_D-V_G curve on the user's grid.
+        s.bias.points = gatehold::device::BiasPoints::Grid;
+    }
     let dots = Dots::new(!quiet && !json);
     let ev = evaluate_alone(&s, &dots)?;
     dots.finish();

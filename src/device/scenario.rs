@@ -166,6 +166,34 @@ pub struct Bias {
     pub vgs_stop_v: f64,
     pub vgs_step_v: f64,
     pub off_vgs_v: f64,
+    /// Which gate voltages are solved (`bias.points`).
+    pub points: BiasPoints,
+    /// Extend the gate range by itself when it does not reach the threshold
+    /// current, the SS window or the off-state point (`bias.auto_extend`).
+    pub auto_extend: bool,
+    /// Furthest the range may be extended beyond each end, V (`bias.extend_limit_V`).
+    pub extend_limit_v: f64,
+}
+
+/// Which gate voltages of the grid `vgs_start_V + k vgs_step_V` a drain sweep solves.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "lowercase")]
+pub enum BiasPoints {
+    /// Only the grid points the extraction needs: the threshold bracket, the
+    /// SS window and one point below it, and the off-state point.
+    Adaptive,
+    /// Every grid point (the whole I_D-V_G curve).
+    Grid,
+}
+
+impl BiasPoints {
+    /// The stable string of the device-file key `bias.points`.
+    pub fn as_str(self) -> &'static str {
+        match self {
+            BiasPoints::Adaptive => "adaptive",
+            BiasPoints::Grid => "grid",
+        }
+    }
 }
 
 impl Bias {
@@ -196,6 +224,10 @@ pub struct MeshSettings {
     /// Node budget: a scenario whose estimated mesh is larger is refused
     /// before anything is built ([`super::check_size`]); key `mesh.max_nodes`.
     pub max_nodes: f64,
+    /// Cell-to-cell growth ratio away from the channel, interfaces and junctions (`mesh.growth`).
+    pub growth: f64,
+    /// Largest cell far from the channel, interfaces and junctions, nm (`mesh.max_far_step_nm`).
+    pub max_far_step_nm: f64,
 }
 
 /// A validated device, ready for the solver.
