@@ -26,7 +26,7 @@ pub fn run(
     let mut s = load(device)?;
     if curves.is_some() || plots.is_some() {
         // The curves and plots show the whole I_D-V_G curve on the user's grid.
-        s.bias.points = gatehold::device::BiasPoints::Grid;
+        s.bias.points = s.bias.points.with_whole_curve();
     }
     let dots = Dots::new(!quiet && !json);
     let ev = evaluate_alone(&s, &dots)?;

@@ -427,7 +427,7 @@ pub const DEFAULT_MESH_GROWTH: f64 = 1.3;
 pub const DEFAULT_MAX_FAR_STEP_NM: f64 = 4.0;
 
 /// Default furthest extension of the gate range beyond each end (`bias.extend_limit_V`), V.
-pub const DEFAULT_EXTEND_LIMIT_V: f64 = 1.0;
+pub const DEFAULT_EXTEND_LIMIT_V: f64 = 3.0;
 
 /// Default node budget (`mesh.max_nodes`): about 120 times the demo bulk device (about 8 GB by the estimate below).
 pub const DEFAULT_MAX_NODES: f64 = 4_000_000.0;
@@ -996,13 +996,15 @@ pub fn scenario_from_table(root: &toml::Table) -> Result<Scenario, DeviceError> 
         vgs_step_v: b("vgs_step_V", 0.02)?,
         off_vgs_v: b("off_vgs_V", 0.0)?,
         points: match r.string("bias.points")? {
-            None | Some("adaptive") => BiasPoints::Adaptive,
+            None | Some("auto") => BiasPoints::Auto,
+            Some("adaptive") => BiasPoints::Adaptive,
             Some("grid") => BiasPoints::Grid,
             Some(other) => {
                 return Err(invalid(
                     "bias.points",
                     format!("\"{other}\""),
-                    "must be \"adaptive\" (solve only the gate voltages the extraction needs) \
+                    "must be \"auto\" (adaptive unless an output stores the whole curve), \
+                     \"adaptive\" (only the gate voltages the extraction needs) \
                      or \"grid\" (every gate voltage of the sweep)",
                 ))
             }

@@ -179,6 +179,9 @@ pub struct Bias {
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
 #[serde(rename_all = "lowercase")]
 pub enum BiasPoints {
+    /// Adaptive unless an output needs the whole curve (`run --curves`,
+    /// `run --plots`, sweep files, which store curves): the default.
+    Auto,
     /// Only the grid points the extraction needs: the threshold bracket, the
     /// SS window and one point below it, and the off-state point.
     Adaptive,
@@ -190,8 +193,17 @@ impl BiasPoints {
     /// The stable string of the device-file key `bias.points`.
     pub fn as_str(self) -> &'static str {
         match self {
+            BiasPoints::Auto => "auto",
             BiasPoints::Adaptive => "adaptive",
             BiasPoints::Grid => "grid",
+        }
+    }
+
+    /// What `auto` becomes when the caller stores or draws the whole curve.
+    pub fn with_whole_curve(self) -> Self {
+        match self {
+            BiasPoints::Auto => BiasPoints::Grid,
+            other => other,
         }
     }
 }

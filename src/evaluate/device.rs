@@ -114,7 +114,7 @@ pub fn solve_planar(
     // Both drain sweeps start from one equilibrium, at the off-state gate
     // voltage (adaptive) or the off end of the grid (grid).
     let v0 = match s.bias.points {
-        BiasPoints::Adaptive => s.bias.off_vgs_v,
+        BiasPoints::Auto | BiasPoints::Adaptive => s.bias.off_vgs_v,
         BiasPoints::Grid => GateGrid::of(s).vgs(0),
     };
     let (eq, eq_steps) = {
@@ -131,7 +131,9 @@ pub fn solve_planar(
     let ramp = |solver: PoissonSolver, vds: f64| -> Result<GateRamp, SolveError> {
         let mut d = DeviceSolver::new(s, &structure, solver);
         match s.bias.points {
-            BiasPoints::Adaptive => adaptive_ramp(&mut d, vds, target, Some(&eq), observer),
+            BiasPoints::Auto | BiasPoints::Adaptive => {
+                adaptive_ramp(&mut d, vds, target, Some(&eq), observer)
+            }
             BiasPoints::Grid => {
                 let r = d.gate_ramp(vds, Some(&eq), observer)?;
                 extend_grid_ramp(&mut d, r, target, observer)

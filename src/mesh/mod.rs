@@ -393,7 +393,7 @@ mod tests {
             2,
         );
         assert!(
-            fine.len() >= 2 * line.len() - 3,
+            fine.len() as f64 > 1.8 * line.len() as f64,
             "{} vs {}",
             fine.len(),
             line.len()

@@ -300,7 +300,7 @@ impl DeviceSolver<'_> {
     }
 
     /// From the equilibrium `eq` at gate voltage `vgs`, the drain ramped up
-    /// to `vds` in steps of at most 0.1 V with a linear predictor.
+    /// to `vds` in steps of at most 0.2 V with a linear predictor.
     pub fn ramp_drain(&mut self, eq: &[f64], vgs: f64, vds: f64) -> Result<Vec<f64>, SolveError> {
         let mut psi = eq.to_vec();
         let mut prev: Option<Vec<f64>> = None;
