@@ -181,29 +181,18 @@ pub fn graded_line(
     refinement: f64,
     min_cells: usize,
 ) -> Line {
-    let max_step = max_step / refinement;
-    let mut pts: Vec<f64> = hard_points.to_vec();
-    pts.sort_by(|a, b| a.partial_cmp(b).unwrap());
-    pts.dedup_by(|a, b| (*a - *b).abs() < 1e-9);
-    let segments: Vec<Segment> = pts
-        .windows(2)
-        .map(|w| {
-            let end_step = |x: f64| match fine(x) {
-                Some(h) => EndStep::Fine((h / refinement).min(max_step)),
-                None => EndStep::Coarse,
-            };
-            Segment {
-                start: w[0],
-                end: w[1],
-                start_step: end_step(w[0]),
-                end_step: end_step(w[1]),
-                max_step,
-                growth: GROWTH / refinement,
-                far: None,
-            }
-        })
-        .collect();
-    Line::from_segments(&segments, min_cells)
+    // One core over the whole line: the maximum step holds everywhere.
+    let lo = hard_points.iter().copied().fold(f64::INFINITY, f64::min);
+    let hi = hard_points
+        .iter()
+        .copied()
+        .fold(f64::NEG_INFINITY, f64::max);
+    let rule = FarRule {
+        max_step_nm: max_step,
+        far_step_nm: max_step,
+        growth: 1.0,
+    };
+    zoned_line(hard_points, fine, &[(lo, hi)], rule, refinement, min_cells)
 }
 
 /// Far-zone rule of a [`zoned_line`]: the maximum step applies inside the
