@@ -1,6 +1,10 @@
 //! Sweep costs: the per-point checkpoint (whole-file rewrite) against the
-//! number of finished points, and a small real sweep at 1 and 2 threads.
+//! number of finished points, a small real sweep at 1 and 2 threads, and
+//! the 200-point double-gate sweep of `benches/dg-200.toml` with 2 jobs
+//! (target at most 20 s, goal 10 s on a 2-core machine).
 //! Run: cargo bench --bench sweep
+//! The 200-point sweep (10 samples, several minutes) runs only when asked:
+//! GATEHOLD_BENCH_LONG=1 cargo bench --bench sweep -- sweep_200
 
 use criterion::{criterion_group, criterion_main, Criterion};
 use gatehold::evaluate::{CriteriaVerdict, DeviceReport, Method, Status};
@@ -124,6 +128,31 @@ fn bench(c: &mut Criterion) {
         });
     }
     g.finish();
+    if std::env::var_os("GATEHOLD_BENCH_LONG").is_some() {
+        let root = std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("benches");
+        let text = std::fs::read_to_string(root.join("dg-200.toml")).unwrap();
+        let plan = parse_plan(&text, &root).unwrap();
+        assert_eq!(plan.points.len(), 200);
+        let out = dir.path().join("dg200.h5");
+        let mut g = c.benchmark_group("sweep_200");
+        g.sample_size(10);
+        g.bench_function("double_gate_jobs_2", |b| {
+            b.iter(|| {
+                run_sweep(
+                    &plan,
+                    &out,
+                    &SweepOptions {
+                        jobs: 2,
+                        overwrite: true,
+                        ..Default::default()
+                    },
+                    &Quiet,
+                )
+                .unwrap()
+            })
+        });
+        g.finish();
+    }
 }
 
 criterion_group!(benches, bench);

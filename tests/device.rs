@@ -209,8 +209,9 @@ max_step_nm = 1.0
         println!("{name}: n {a:.12} p(mirrored) {b:.12}");
         assert!((a - b).abs() < 1e-9, "{name}: {a} vs {b}");
     }
+    // Adaptive bias points: a gate voltage solved at one drain bias only is None at the other.
     assert!(
-        p.id_lin.iter().all(|i| i.unwrap() < 0.0),
+        p.id_lin.iter().flatten().count() > 5 && p.id_lin.iter().flatten().all(|&i| i < 0.0),
         "p-channel drain current is negative"
     );
 }
@@ -262,13 +263,14 @@ fn shorter_gates_lose_control_monotonically() {
 #[test]
 fn bad_ranges_are_reported_not_extrapolated() {
     // The sweep stops below threshold: V_t and SS are missing with a reason and a suggestion.
-    let s = double_gate(20.0, 8.0, 1.0, "[bias]\nvgs_start_V = -0.3\nvgs_stop_V = 0.05\nvgs_step_V = 0.05\n[mesh]\nmax_step_nm = 1.0\n");
+    // (With bias.auto_extend off: the range is not extended by itself.)
+    let s = double_gate(20.0, 8.0, 1.0, "[bias]\nvgs_start_V = -0.3\nvgs_stop_V = 0.05\nvgs_step_V = 0.05\nauto_extend = false\n[mesh]\nmax_step_nm = 1.0\n");
     let r = solve_device(&s).report;
     assert!(r.vt_lin_v.is_none() && r.dibl_mv_per_v.is_none());
     assert!(
         r.problems
             .iter()
-            .any(|p| p.contains("extend the sweep beyond")),
+            .any(|p| p.contains("set bias.vgs_stop_V = ")),
         "{:?}",
         r.problems
     );

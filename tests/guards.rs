@@ -107,8 +107,9 @@ fn hostile_values_are_refused_naming_the_key_at_fault() {
 #[test]
 fn a_mesh_beyond_the_node_budget_is_refused_with_the_override_named() {
     let dir = tempfile::tempdir().unwrap();
-    // 1 um of source/drain on a 0.1 nm mesh: far beyond a million nodes.
-    let text = format!("{BASE}[mesh]\nmax_step_nm = 0.1\n").replace(
+    // 1 um of source/drain on a 0.1 nm mesh everywhere (far zones as fine as
+    // the channel): far beyond a million nodes.
+    let text = format!("{BASE}[mesh]\nmax_step_nm = 0.1\nmax_far_step_nm = 0.1\n").replace(
         "gate_length_nm = 25",
         "gate_length_nm = 25\nsource_drain_length_nm = 1000",
     );

@@ -229,7 +229,10 @@ fn completed_file_meets_the_contract_and_jobs_do_not_change_results() {
     let vt = r.figure("vt_lin_V").unwrap();
     assert!(vt[0] < vt[2] && vt[2] < vt[4], "{vt:?}");
     // The figure names equal the report's (new figures flow through generically).
-    let sol = gatehold::evaluate::evaluate_alone(&plan().points[0].scenario, &Silent).unwrap();
+    // (As the sweep does: sweep files store whole curves.)
+    let mut sc = plan().points[0].scenario.clone();
+    sc.bias.points = sc.bias.points.with_whole_curve();
+    let sol = gatehold::evaluate::evaluate_alone(&sc, &Silent).unwrap();
     let names: Vec<String> = sol
         .report
         .scalars()
@@ -369,17 +372,15 @@ fn failed_points_are_recorded_and_the_sweep_goes_on() {
     // cannot be extracted (never extrapolated), the reason is its status, and
     // the sweep goes on to the next point.
     let d = dir();
-    let text = "base = \"tiny.toml\"\n[axes]\n\"bias.vgs_stop_V\" = [0.0, 0.6]";
+    // (No extension, bias.extend_limit_V = 0: an extended range would reach it.)
+    let text = "base = \"tiny.toml\"\n[axes]\n\"bias.vgs_stop_V\" = [0.0, 0.6]\n\"bias.extend_limit_V\" = [0.0]";
     let p = parse_plan(text, d).unwrap();
     let out = d.join("failed.h5");
     let s = run_sweep(&p, &out, &opts(2), &Quiet).unwrap();
     assert_eq!((s.failed, s.complete), (1, true), "{s:?}");
     let f = read_sweep(&out).unwrap();
     assert!(
-        f.rows[0]
-            .status
-            .as_str()
-            .contains("extend the sweep beyond"),
+        f.rows[0].status.as_str().contains("set bias.vgs_stop_V = "),
         "{}",
         f.rows[0].status
     );

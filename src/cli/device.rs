@@ -29,6 +29,10 @@ pub fn run(
     if let Some(m) = fins {
         s.fin_method = m;
     }
+    if curves.is_some() || plots.is_some() {
+        // The curves and plots show the whole I_D-V_G curve on the user's grid.
+        s.bias.points = s.bias.points.with_whole_curve();
+    }
     let dots = Dots::new(!quiet && !json);
     let ev = evaluate_alone(&s, &dots)?;
     dots.finish();

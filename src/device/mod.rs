@@ -102,6 +102,9 @@ const TABLE_KEYS: &[(&str, &[&str])] = &[
             "vgs_stop_V",
             "vgs_step_V",
             "off_vgs_V",
+            "points",
+            "auto_extend",
+            "extend_limit_V",
         ],
     ),
     (
@@ -112,7 +115,16 @@ const TABLE_KEYS: &[(&str, &[&str])] = &[
             "injection_velocity_cm_per_s",
         ],
     ),
-    ("mesh", &["max_step_nm", "refinement", "max_nodes"]),
+    (
+        "mesh",
+        &[
+            "max_step_nm",
+            "refinement",
+            "max_nodes",
+            "growth",
+            "max_far_step_nm",
+        ],
+    ),
 ];
 const LAYER_KEYS: &[&str] = &["material", "relative_permittivity", "thickness_nm"];
 
@@ -245,6 +257,14 @@ impl<'a> Reader<'a> {
                 }
                 Ok(Some(x))
             }
+        }
+    }
+
+    fn boolean(&self, key: &str) -> Result<Option<bool>, DeviceError> {
+        match self.get(key) {
+            None => Ok(None),
+            Some(Value::Boolean(b)) => Ok(Some(*b)),
+            Some(other) => Err(invalid(key, other, "must be true or false")),
         }
     }
 
@@ -389,6 +409,9 @@ pub const LIMITS: &[Limit] = &[
     Limit { key: "mesh.max_step_nm", min: 0.05, max: 5.0, unit: "nm", why: "largest mesh cell" },
     Limit { key: "mesh.refinement", min: 1.0, max: 8.0, unit: "", why: "divides every mesh step" },
     Limit { key: "mesh.max_nodes", min: 1_000.0, max: 1e8, unit: "nodes", why: "the node budget checked before any mesh is built" },
+    Limit { key: "mesh.growth", min: 1.0, max: 2.0, unit: "", why: "cell-to-cell ratio away from the channel: 1 keeps mesh.max_step_nm everywhere; above 2 the box integration loses accuracy" },
+    Limit { key: "mesh.max_far_step_nm", min: 0.05, max: 50.0, unit: "nm", why: "largest cell far from the channel, interfaces and junctions" },
+    Limit { key: "bias.extend_limit_V", min: 0.0, max: 5.0, unit: "V", why: "how far the gate range may grow beyond each end (0: never)" },
 ];
 
 /// The limit of `key` (layer keys as `gate_stack.N.key`).
@@ -422,6 +445,18 @@ fn bounded(key: &str, x: f64) -> Result<f64, DeviceError> {
     }
 }
 
+/// Default cell-to-cell growth ratio away from the channel (`mesh.growth`),
+/// chosen by measurement: the default mesh stays within 0.5 mV (V_t) and 2 %
+/// (DIBL) of a mesh twice as fine for every planar demo device
+/// (tests/mesh_convergence.rs).
+pub const DEFAULT_MESH_GROWTH: f64 = 1.3;
+
+/// Default far cap (`mesh.max_far_step_nm`), nm, chosen with [`DEFAULT_MESH_GROWTH`].
+pub const DEFAULT_MAX_FAR_STEP_NM: f64 = 4.0;
+
+/// Default furthest extension of the gate range beyond each end (`bias.extend_limit_V`), V.
+pub const DEFAULT_EXTEND_LIMIT_V: f64 = 3.0;
+
 /// Default node budget (`mesh.max_nodes`): about 120 times the demo bulk device (about 8 GB by the estimate below).
 pub const DEFAULT_MAX_NODES: f64 = 4_000_000.0;
 
@@ -432,7 +467,9 @@ pub const BYTES_PER_NODE_ESTIMATE: f64 = 2_000.0;
 /// Estimated mesh nodes of the scenario's largest 2D problem, from the
 /// geometry and mesh keys alone (before anything is built), and the key that
 /// dominates it. A lower estimate: every cell is at most the maximum step, so
-/// a domain of extents X by Y has at least (X/h + 1)(Y/h + 1) nodes.
+/// a domain of extents X by Y has at least (X/h + 1)(Y/h + 1) nodes; planar
+/// devices count their far zones (beyond the channel, the interfaces and the
+/// junctions) at the far cap `mesh.max_far_step_nm` instead.
 pub fn estimate_nodes(s: &Scenario) -> (f64, &'static str) {
     let g = &s.geometry;
     let h = s.mesh.max_step_nm / s.mesh.refinement;
@@ -511,7 +548,24 @@ pub fn estimate_nodes(s: &Scenario) -> (f64, &'static str) {
             ],
         )
     };
-    let nodes = (x / h + 1.0 + layers) * (y / h + 1.0 + layers);
+    let nodes = if s.architecture.is_planar() {
+        // Far zones (mesh.growth, mesh.max_far_step_nm): outside the channel,
+        // the interfaces and the junctions no cell is larger than the far cap,
+        // so the far extents count at least (extent / far cap) cells.
+        let hf = (s.mesh.max_far_step_nm / s.mesh.refinement).max(h);
+        let m = crate::mesh::CORE_MARGIN_NM;
+        let x_core = (g.gate_length_nm + 2.0 * (m + s.doping.junction_offset_nm.abs())).min(x);
+        let y_body = match s.architecture {
+            Architecture::Bulk => g.junction_depth_nm + m,
+            Architecture::ThinBody => g.body_thickness_nm + m,
+            _ => g.body_thickness_nm / 2.0,
+        };
+        let y_core = (t + m + y_body).min(y);
+        let cells = |core: f64, all: f64| core / h + (all - core) / hf;
+        (cells(x_core, x) + 1.0 + layers) * (cells(y_core, y) + 1.0 + layers)
+    } else {
+        (x / h + 1.0 + layers) * (y / h + 1.0 + layers)
+    };
     parts.sort_by(|a, b| b.1.total_cmp(&a.1));
     (nodes, parts[0].0)
 }
@@ -1101,6 +1155,26 @@ pub fn scenario_from_table(root: &toml::Table) -> Result<Scenario, DeviceError> 
         vgs_stop_v: b("vgs_stop_V", if s > 0.0 { 0.8 } else { 0.2 })?,
         vgs_step_v: b("vgs_step_V", 0.02)?,
         off_vgs_v: b("off_vgs_V", 0.0)?,
+        points: match r.string("bias.points")? {
+            None | Some("auto") => BiasPoints::Auto,
+            Some("adaptive") => BiasPoints::Adaptive,
+            Some("grid") => BiasPoints::Grid,
+            Some(other) => {
+                return Err(invalid(
+                    "bias.points",
+                    format!("\"{other}\""),
+                    "must be \"auto\" (adaptive unless an output stores the whole curve), \
+                     \"adaptive\" (only the gate voltages the extraction needs) \
+                     or \"grid\" (every gate voltage of the sweep)",
+                ))
+            }
+        },
+        auto_extend: r.boolean("bias.auto_extend")?.unwrap_or(true),
+        extend_limit_v: bounded(
+            "bias.extend_limit_V",
+            r.number("bias.extend_limit_V")?
+                .unwrap_or(DEFAULT_EXTEND_LIMIT_V),
+        )?,
     };
     for (k, v) in [
         ("bias.vgs_start_V", bias.vgs_start_v),
@@ -1175,12 +1249,21 @@ pub fn scenario_from_table(root: &toml::Table) -> Result<Scenario, DeviceError> 
             "gives fewer than 5 gate voltages",
         ));
     }
-    if bias.off_vgs_v < bias.vgs_start_v - 1e-12 || bias.off_vgs_v > bias.vgs_stop_v + 1e-12 {
+    // With bias.auto_extend the range may grow to reach the off-state point.
+    let reach = if bias.auto_extend {
+        bias.extend_limit_v
+    } else {
+        0.0
+    };
+    if bias.off_vgs_v < bias.vgs_start_v - reach - 1e-12
+        || bias.off_vgs_v > bias.vgs_stop_v + reach + 1e-12
+    {
         return Err(invalid(
             "bias.off_vgs_V",
             bias.off_vgs_v,
             format!(
-                "must lie within the gate sweep {} to {} V",
+                "must lie within the gate sweep {} to {} V (extended by bias.extend_limit_V = {reach} V when bias.auto_extend = true); \
+                 set bias.off_vgs_V inside it or widen bias.vgs_start_V/bias.vgs_stop_V",
                 bias.vgs_start_v, bias.vgs_stop_v
             ),
         ));
@@ -1228,7 +1311,31 @@ pub fn scenario_from_table(root: &toml::Table) -> Result<Scenario, DeviceError> 
             "mesh.max_nodes",
             r.number("mesh.max_nodes")?.unwrap_or(DEFAULT_MAX_NODES),
         )?,
+        growth: bounded(
+            "mesh.growth",
+            r.number("mesh.growth")?.unwrap_or(DEFAULT_MESH_GROWTH),
+        )?,
+        max_far_step_nm: bounded(
+            "mesh.max_far_step_nm",
+            r.number("mesh.max_far_step_nm")?
+                .unwrap_or(DEFAULT_MAX_FAR_STEP_NM),
+        )?,
     };
+    let mut mesh = mesh;
+    if !r.given("mesh.max_far_step_nm") {
+        // The default far cap never undercuts a coarse mesh.max_step_nm.
+        mesh.max_far_step_nm = mesh.max_far_step_nm.max(mesh.max_step_nm);
+    }
+    if mesh.max_far_step_nm < mesh.max_step_nm {
+        return Err(invalid(
+            "mesh.max_far_step_nm",
+            mesh.max_far_step_nm,
+            format!(
+                "must be at least mesh.max_step_nm = {} (the far cells are never finer than the channel's)",
+                mesh.max_step_nm
+            ),
+        ));
+    }
     check_gate_length(gate_length_nm, &mesh, junction_offset_nm)?;
     if arch != Architecture::Bulk && body_thickness_nm < 1.0 {
         return Err(invalid(

@@ -193,6 +193,46 @@ pub struct Bias {
     pub vgs_stop_v: f64,
     pub vgs_step_v: f64,
     pub off_vgs_v: f64,
+    /// Which gate voltages are solved (`bias.points`).
+    pub points: BiasPoints,
+    /// Extend the gate range by itself when it does not reach the threshold
+    /// current, the SS window or the off-state point (`bias.auto_extend`).
+    pub auto_extend: bool,
+    /// Furthest the range may be extended beyond each end, V (`bias.extend_limit_V`).
+    pub extend_limit_v: f64,
+}
+
+/// Which gate voltages of the grid `vgs_start_V + k vgs_step_V` a drain sweep solves.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "lowercase")]
+pub enum BiasPoints {
+    /// Adaptive unless an output needs the whole curve (`run --curves`,
+    /// `run --plots`, sweep files, which store curves): the default.
+    Auto,
+    /// Only the grid points the extraction needs: the threshold bracket, the
+    /// SS window and one point below it, and the off-state point.
+    Adaptive,
+    /// Every grid point (the whole I_D-V_G curve).
+    Grid,
+}
+
+impl BiasPoints {
+    /// The stable string of the device-file key `bias.points`.
+    pub fn as_str(self) -> &'static str {
+        match self {
+            BiasPoints::Auto => "auto",
+            BiasPoints::Adaptive => "adaptive",
+            BiasPoints::Grid => "grid",
+        }
+    }
+
+    /// What `auto` becomes when the caller stores or draws the whole curve.
+    pub fn with_whole_curve(self) -> Self {
+        match self {
+            BiasPoints::Auto => BiasPoints::Grid,
+            other => other,
+        }
+    }
 }
 
 impl Bias {
@@ -226,6 +266,10 @@ pub struct MeshSettings {
     /// Node budget: a scenario whose estimated mesh is larger is refused
     /// before anything is built ([`super::check_size`]); key `mesh.max_nodes`.
     pub max_nodes: f64,
+    /// Cell-to-cell growth ratio away from the channel, interfaces and junctions (`mesh.growth`).
+    pub growth: f64,
+    /// Largest cell far from the channel, interfaces and junctions, nm (`mesh.max_far_step_nm`).
+    pub max_far_step_nm: f64,
 }
 
 /// How fins and wires are evaluated (planar devices are always solved in 2D).

@@ -8,11 +8,12 @@
 use super::capacitance::{self, device_capacitance, CapacitanceFigures};
 use super::reference::{Reference, ReferenceError};
 use super::report::{DeviceReport, Method, CAUTION};
-use crate::device::FinMethod;
-use crate::device::Scenario;
+use crate::device::{BiasPoints, FinMethod, Scenario};
+use crate::extract::adaptive::{adaptive_ramp, extend_grid_ramp};
 use crate::extract::electrical_length::L_ELEC_WARN_NM;
-use crate::extract::{self, ascending, ramp_figures, Barrier};
+use crate::extract::{self, ramp_figures, union_curves, Barrier};
 use crate::progress::{Observer, SolveKind};
+use crate::solve::ramp::GateGrid;
 use crate::solve::{DeviceSolver, GateRamp, PoissonSolver, SolveError};
 use crate::structure::{along_channel, along_fin, AlongChannel, DopingProfile};
 use crate::theory::closed_form;
@@ -144,24 +145,64 @@ fn solve_structure(
     structure: AlongChannel,
     method: Method,
 ) -> Result<DeviceSolution, EvaluateError> {
-    let solver = PoissonSolver::new(&structure.problem)?;
+    let mut solver = PoissonSolver::new(&structure.problem)?;
     let unknowns = solver.unknowns();
+    let target = threshold_current(s);
+    // Both drain sweeps start from one equilibrium, at the off-state gate
+    // voltage (adaptive) or the off end of the grid (grid).
+    let v0 = match s.bias.points {
+        BiasPoints::Auto | BiasPoints::Adaptive => s.bias.off_vgs_v,
+        BiasPoints::Grid => GateGrid::of(s).vgs(0),
+    };
+    let (eq, eq_steps) = {
+        let mut d = DeviceSolver::new(s, &structure, solver.clone());
+        let eq = d.equilibrium(v0)?;
+        solver = d.solver;
+        (eq, d.steps)
+    };
+    let eq_factorisations = solver.factorisations;
     let solver2 = solver.clone();
+    // Adaptive: only the gate voltages the extraction needs; grid: the whole
+    // I_D-V_G curve (extended beyond the user's range when it misses the
+    // threshold current or the SS window and bias.auto_extend allows).
+    let ramp = |solver: PoissonSolver, vds: f64| -> Result<GateRamp, SolveError> {
+        let mut d = DeviceSolver::new(s, &structure, solver);
+        match s.bias.points {
+            BiasPoints::Auto | BiasPoints::Adaptive => {
+                adaptive_ramp(&mut d, vds, target, Some(&eq), observer)
+            }
+            BiasPoints::Grid => {
+                let r = d.gate_ramp(vds, Some(&eq), observer)?;
+                extend_grid_ramp(&mut d, r, target, observer)
+            }
+        }
+    };
+    // Capacitances (planar sections only) beside the lin ramp.
     let solver3 = solver.clone();
     let ((lin, cap), sat) = rayon::join(
         || {
-            let lin =
-                DeviceSolver::new(s, &structure, solver).gate_ramp(s.bias.vds_lin_v, observer);
-            (lin, device_capacitance(s, &structure, solver3))
+            let lin = ramp(solver, s.bias.vds_lin_v);
+            let cap = (method == Method::TwoDSolve)
+                .then(|| device_capacitance(s, &structure, solver3));
+            (lin, cap)
         },
-        || DeviceSolver::new(s, &structure, solver2).gate_ramp(s.bias.vds_sat_v, observer),
+        || ramp(solver2, s.bias.vds_sat_v),
     );
     let (lin, sat) = (lin?, sat?);
     observer.solved(SolveKind::GateRamp);
     observer.solved(SolveKind::GateRamp);
-    let target = threshold_current(s);
+    let mut warnings = s.warnings.clone();
+    for (r, label) in [(&lin, "V_DS,lin"), (&sat, "V_DS,sat")] {
+        for v in &r.extended_to_v {
+            warnings.push(format!(
+                "{label}: the gate range {} to {} V was extended to {v:.3} V to reach the threshold current \
+                 and the SS window (bias.auto_extend = true, at most bias.extend_limit_V = {} V beyond each end)",
+                s.bias.vgs_start_v, s.bias.vgs_stop_v, s.bias.extend_limit_v
+            ));
+        }
+    }
     let mut problems = Vec::new();
-    let capacitance = cap.map_err(|e| problems.push(e.to_string())).ok();
+    let capacitance = cap.and_then(|c| c.map_err(|e| problems.push(e.to_string())).ok());
     let mut figures = |ramp: &GateRamp, label: &str| match ramp_figures(ramp, target) {
         Ok(v) => Some(v),
         Err(e) => {
@@ -184,8 +225,7 @@ fn solve_structure(
     };
     let barrier_lin = barrier_of(&lin, "barrier at V_DS,lin");
     let barrier_sat = barrier_of(&sat, "barrier at V_DS,sat");
-    let (vgs, id_lin) = ascending(&lin);
-    let (_, id_sat) = ascending(&sat);
+    let (vgs, id_lin, id_sat) = union_curves(&lin, &sat);
     let converged = lin
         .points
         .iter()
@@ -207,8 +247,8 @@ fn solve_structure(
             converged,
             nodes: p.node_count(),
             unknowns,
-            newton_steps: lin.newton_steps + sat.newton_steps,
-            factorisations: lin.factorisations + sat.factorisations,
+            newton_steps: eq_steps + lin.newton_steps + sat.newton_steps,
+            factorisations: eq_factorisations + lin.factorisations + sat.factorisations,
             bias_points: lin.points.len() + sat.points.len(),
             vgs_v: vgs,
             id_lin,
@@ -222,7 +262,7 @@ fn solve_structure(
                 _ => "A/um (drain current per um of gate width; negative for p-channel)".into(),
             },
             problems,
-            warnings: s.warnings.clone(),
+            warnings,
         },
     );
     let mut report = report;

@@ -13,7 +13,7 @@ pub enum ExtractError {
     },
     #[error("the SS window (1e-3 to 1e-1 of the threshold current) is not inside the gate sweep ({detail}); {suggestion}")]
     WindowNotBracketed { detail: String, suggestion: String },
-    #[error("only {0} bias points fall in the SS window; use a smaller bias.vgs_step_V")]
+    #[error("only {0} bias points fall in the SS window; use a smaller bias.vgs_step_V (try half the present step)")]
     TooFewPoints(usize),
     #[error("bias point V_G = {vgs_v:.4} V at V_DS = {vds_v} V did not converge: {reason}")]
     NotConverged {
@@ -31,6 +31,54 @@ pub struct Curve<'a> {
     pub id_abs: &'a [f64],
 }
 
+/// Which end of a curve a range failure is at.
+#[derive(Debug, Clone, Copy, PartialEq)]
+enum End {
+    Off,
+    On,
+}
+
+/// What to change when the curve's range misses `goal` (A/um) at `end`:
+/// the key of that end of the gate sweep and a value to try (the end moved
+/// by the missing decades at the curve's own swing near that end, or
+/// 100 mV/decade, plus 0.1 V, rounded outward to 0.05 V).
+fn range_suggestion(c: &Curve, end: End, goal: f64) -> String {
+    let (v, i) = (c.vgs_v, c.id_abs);
+    let n = v.len();
+    let up = n < 2 || v[n - 1] > v[0];
+    let (k, k2) = match end {
+        End::Off => (0, 1.min(n - 1)),
+        End::On => (n - 1, n.saturating_sub(2)),
+    };
+    let dec = (goal.log10() - i[k].log10()).abs();
+    let slope = ((i[k].log10() - i[k2].log10()) / (v[k] - v[k2])).abs();
+    let swing_v = if slope.is_finite() && slope > 1.0 {
+        1.0 / slope
+    } else {
+        0.1
+    };
+    let toward_on = if up { 1.0 } else { -1.0 };
+    let dir = match end {
+        End::Off => -toward_on,
+        End::On => toward_on,
+    };
+    let raw = v[k] + dir * (dec * swing_v + 0.1);
+    let to = if dir > 0.0 {
+        (raw / 0.05).ceil() * 0.05
+    } else {
+        (raw / 0.05).floor() * 0.05
+    };
+    let key = match (end, up) {
+        (End::Off, true) | (End::On, false) => "bias.vgs_start_V",
+        _ => "bias.vgs_stop_V",
+    };
+    format!(
+        "set {key} = {to:.2} (now {:.3}), or keep bias.auto_extend = true and raise bias.extend_limit_V by {:.2} V",
+        v[k],
+        ((to - v[k]).abs() / 0.05).ceil() * 0.05
+    )
+}
+
 /// Threshold voltage where |I_D| first reaches `target` (A/um), interpolating
 /// log10 |I_D| linearly between bias points. Never extrapolates.
 pub fn threshold(c: &Curve, target: f64) -> Result<f64, ExtractError> {
@@ -42,7 +90,7 @@ pub fn threshold(c: &Curve, target: f64) -> Result<f64, ExtractError> {
                 "already {:.3e} A/um at the first gate voltage {:.3} V",
                 i[0], v[0]
             ),
-            suggestion: format!("start the sweep further toward off than {:.3} V", v[0]),
+            suggestion: range_suggestion(c, End::Off, super::adaptive::WINDOW_LOW * target),
         });
     }
     for k in 1..v.len() {
@@ -58,14 +106,17 @@ pub fn threshold(c: &Curve, target: f64) -> Result<f64, ExtractError> {
             i[v.len() - 1],
             v[v.len() - 1]
         ),
-        suggestion: format!("extend the sweep beyond {:.3} V", v[v.len() - 1]),
+        suggestion: range_suggestion(c, End::On, target),
     })
 }
 
 /// Subthreshold swing, mV/decade: inverse slope of a least-squares line of
 /// log10 |I_D| against V_G over the points with |I_D| in [1e-3, 1e-1] x target.
 pub fn swing(c: &Curve, target: f64) -> Result<f64, ExtractError> {
-    let (lo, hi) = (1e-3 * target, 1e-1 * target);
+    let (lo, hi) = (
+        super::adaptive::WINDOW_LOW * target,
+        super::adaptive::WINDOW_HIGH * target,
+    );
     let (v, i) = (c.vgs_v, c.id_abs);
     if i[0] > lo {
         return Err(ExtractError::WindowNotBracketed {
@@ -73,13 +124,13 @@ pub fn swing(c: &Curve, target: f64) -> Result<f64, ExtractError> {
                 "{:.3e} A/um at the first gate voltage {:.3} V is above {:.3e}",
                 i[0], v[0], lo
             ),
-            suggestion: format!("start the sweep further toward off than {:.3} V", v[0]),
+            suggestion: range_suggestion(c, End::Off, lo),
         });
     }
     if i.iter().all(|&x| x < hi) {
         return Err(ExtractError::WindowNotBracketed {
             detail: format!("the current never reaches {hi:.3e} A/um"),
-            suggestion: format!("extend the sweep beyond {:.3} V", v[v.len() - 1]),
+            suggestion: range_suggestion(c, End::On, hi),
         });
     }
     let pts: Vec<(f64, f64)> = v
@@ -136,6 +187,35 @@ pub fn ascending(ramp: &GateRamp) -> (Vec<f64>, Vec<Option<f64>>) {
         .collect();
     pts.sort_by(|a, b| a.0.total_cmp(&b.0));
     pts.into_iter().unzip()
+}
+
+/// Both drain sweeps on one ascending list of gate voltages (every voltage
+/// solved at either drain bias): `None` where that drain bias did not solve
+/// the voltage (adaptive bias points) or did not converge there.
+pub fn union_curves(
+    lin: &GateRamp,
+    sat: &GateRamp,
+) -> (Vec<f64>, Vec<Option<f64>>, Vec<Option<f64>>) {
+    let mut v: Vec<f64> = lin
+        .points
+        .iter()
+        .chain(&sat.points)
+        .map(|p| p.vgs_v)
+        .collect();
+    v.sort_by(f64::total_cmp);
+    v.dedup_by(|a, b| (*a - *b).abs() < 1e-9);
+    let at = |r: &GateRamp| -> Vec<Option<f64>> {
+        v.iter()
+            .map(|&x| {
+                r.points
+                    .iter()
+                    .find(|p| (p.vgs_v - x).abs() < 1e-9)
+                    .and_then(|p| p.current_a_per_um)
+            })
+            .collect()
+    };
+    let (il, is) = (at(lin), at(sat));
+    (v, il, is)
 }
 
 #[cfg(test)]

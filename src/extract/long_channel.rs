@@ -37,7 +37,7 @@ pub struct LongChannel {
 pub enum LongChannelError {
     #[error(transparent)]
     Solve(#[from] UniformSolveError),
-    #[error("the long-channel current does not reach the criterion within the gate sweep {0:.3} to {1:.3} V; widen bias.vgs_start_V/vgs_stop_V")]
+    #[error("the long-channel current does not reach the criterion within the gate sweep {0:.3} to {1:.3} V; widen bias.vgs_start_V/vgs_stop_V by 0.5 V, or keep bias.auto_extend = true and raise bias.extend_limit_V by 0.5 V")]
     NotBracketed(f64, f64),
 }
 
@@ -73,11 +73,11 @@ pub fn extract_long_channel(
     let sign = s.polarity.sign();
     let target = s.extraction.current_criterion_a;
     let vds = b.vds_lin_v;
-    // Gate voltages from the off end toward the on end.
-    let mut grid = b.gate_voltages();
-    if sign < 0.0 {
-        grid.reverse();
-    }
+    // Gate voltages from the off end toward the on end; with bias.auto_extend
+    // the same grid continues beyond the on end (and, when the first point
+    // is already on, beyond the off end), as the drain sweeps do.
+    let g = crate::solve::ramp::GateGrid::of(s);
+    let grid: Vec<f64> = (0..=g.max_index).map(|j| g.vgs(j)).collect();
     let log_i = |col: &mut UniformChannel, vg: f64| -> Result<f64, LongChannelError> {
         Ok(pao_sah_current_l_over_w(col, vg, vds)?.log10())
     };
@@ -91,6 +91,19 @@ pub fn extract_long_channel(
             break;
         }
         prev = Some((vg, li));
+    }
+    if bracket.is_none() && prev.is_none() {
+        // Already on at the off end: walk toward off.
+        let mut next = (g.vgs(0), log_i(col, g.vgs(0))?);
+        for j in (g.min_index..0).rev() {
+            let vg = g.vgs(j);
+            let li = log_i(col, vg)?;
+            if li < lt {
+                bracket = Some(((vg, li), next));
+                break;
+            }
+            next = (vg, li);
+        }
     }
     let ((mut va, mut la), (mut vb, mut lb)) =
         bracket.ok_or(LongChannelError::NotBracketed(b.vgs_start_v, b.vgs_stop_v))?;

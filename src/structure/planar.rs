@@ -13,7 +13,7 @@ use super::{
 };
 use crate::device::{Architecture, Polarity, Scenario};
 use crate::discretize::{CellKind, Problem};
-use crate::mesh::{graded_line, Line};
+use crate::mesh::{zoned_line, FarRule, Line, CORE_MARGIN_NM};
 use crate::physics::Silicon;
 
 /// Thickness of the metal slab standing for the thin-body back plane, nm.
@@ -191,9 +191,13 @@ impl Plugs {
 }
 
 struct VerticalLayout {
-    /// (y0, y1, kind) bands under the gate, top to bottom; `None` kind = silicon.
+    /// Mesh lines every column keeps (material interfaces), nm.
     hard: Vec<f64>,
+    /// (line, finest step) pairs refined toward.
     fine: Vec<(f64, f64)>,
+    /// Where the maximum step holds: the gate stack and silicon body with a
+    /// margin (far zones elsewhere: gate metal, spacer top, buried oxide, deep substrate).
+    cores: Vec<(f64, f64)>,
 }
 
 fn stack_layers_down(s: &Scenario, from: f64, down: bool) -> Vec<(f64, f64, f64)> {
@@ -221,33 +225,50 @@ fn vertical_layout(s: &Scenario) -> VerticalLayout {
         hard.push(y0);
     }
     let tsi = g.body_thickness_nm;
-    match s.architecture {
+    let m = CORE_MARGIN_NM;
+    let body_bottom = match s.architecture {
         Architecture::DoubleGate => {
             // Mirror-symmetric about the body's mid-plane: the upper half is
             // meshed, the mid-plane is its last line (zero normal field).
             hard.push(0.5 * tsi);
+            0.5 * tsi
         }
         Architecture::ThinBody => {
             hard.push(tsi);
             fine.push((tsi, FINE_INTERFACE_NM));
             hard.push(tsi + g.box_thickness_nm);
             hard.push(tsi + g.box_thickness_nm + BACK_PLANE_SLAB_NM);
+            tsi + m
         }
         Architecture::Bulk => {
             hard.push(g.junction_depth_nm);
             fine.push((g.junction_depth_nm, FINE_JUNCTION_NM));
             hard.push(g.substrate_depth_nm);
+            g.junction_depth_nm + m
         }
-        _ => {}
+        _ => 0.0,
+    };
+    VerticalLayout {
+        hard,
+        fine,
+        cores: vec![(-t - m, body_bottom)],
     }
-    VerticalLayout { hard, fine }
+}
+
+/// The far-zone rule of the scenario's mesh keys.
+fn far_rule(s: &Scenario) -> FarRule {
+    FarRule {
+        max_step_nm: s.mesh.max_step_nm,
+        far_step_nm: s.mesh.max_far_step_nm,
+        growth: s.mesh.growth,
+    }
 }
 
 /// Mesh lines in y for a planar device's column (shared by the 2D and 1D problems).
 fn y_line(s: &Scenario) -> Line {
     let v = vertical_layout(s);
     let r = s.mesh.refinement;
-    graded_line(&v.hard, |y| lookup(&v.fine, y), s.mesh.max_step_nm, r, 2)
+    zoned_line(&v.hard, |y| lookup(&v.fine, y), &v.cores, far_rule(s), r, 2)
 }
 
 /// Material of a planar device at (x, y); `gate` is the x-range of the gate electrode.
@@ -338,7 +359,14 @@ fn along_channel_in(s: &Scenario, z: Line) -> AlongChannel {
             fine.push((e, FINE_JUNCTION_NM));
         }
     }
-    let x = graded_line(&hard, |p| lookup(&fine, p), s.mesh.max_step_nm, r, 2);
+    // The channel and both junctions with a margin keep the maximum step;
+    // the far source and drain grow toward their contacts.
+    let m = CORE_MARGIN_NM;
+    let core = (
+        sd.min(doping.source_edge) - m,
+        (sd + l).max(doping.drain_edge) + m,
+    );
+    let x = zoned_line(&hard, |p| lookup(&fine, p), &[core], far_rule(s), r, 2);
     let y = y_line(s);
     let silicon = Silicon::at(s.temperature_k);
     let nx = x.len();

@@ -266,7 +266,12 @@ pub fn run_plan_point(
     };
     let mut named = Vec::new();
     let result = match reference {
-        Ok(r) => evaluate(&p.scenario, r, &Silent).map_err(|e| e.to_string()),
+        Ok(r) => {
+            // Sweep files store curves: `bias.points = "auto"` solves the whole grid.
+            let mut sc = p.scenario.clone();
+            sc.bias.points = sc.bias.points.with_whole_curve();
+            evaluate(&sc, r, &Silent).map_err(|e| e.to_string())
+        }
         Err(e) => Err(e.clone()),
     };
     match result {
