@@ -110,8 +110,8 @@ fn extruded_planar_sections_reproduce_the_2d_solve() {
         assert!(worst < 1e-6, "{arch}: {worst}");
         let target = s.extraction.current_criterion_a / (s.geometry.gate_length_nm * 1e-3);
         for vds in [s.bias.vds_lin_v, s.bias.vds_sat_v] {
-            let r2 = d2.gate_ramp(vds, &Silent).unwrap();
-            let r3 = d3.gate_ramp(vds, &Silent).unwrap();
+            let r2 = d2.gate_ramp(vds, None, &Silent).unwrap();
+            let r3 = d3.gate_ramp(vds, None, &Silent).unwrap();
             let (vt2, _) = ramp_figures(&r2, target).expect("2D figures");
             let (vt3, _) = ramp_figures(&r3, target).expect("3D figures");
             println!("{arch} V_DS = {vds}: V_t 2D {vt2:.6} V, extruded {vt3:.6} V");
