@@ -12,10 +12,10 @@
 //! | constants, materials, internal units | [`physics`] | [`physics::Silicon::at`] |
 //! | device file to checked scenario (one unit system, typed polarity) | [`device`] | [`device::load_device`], [`device::parse_device`] |
 //! | planar and fin geometry and doping | [`structure`] | [`structure::along_channel`], [`structure::long_channel_column`], [`structure::cross_section`] |
-//! | mesh lines | [`mesh`] | [`mesh::graded_line`] |
+//! | mesh lines (far zones) | [`mesh`] | [`mesh::graded_line`], [`mesh::zoned_line`] |
 //! | box-integration discretisation | [`discretize`] | [`discretize::Problem`] |
 //! | Cholesky, Newton, Anderson, quasi-Fermi loop, continuation, uniform-level solver | [`solve`] | [`solve::DeviceSolver`], [`solve::UniformChannel`] |
-//! | V_t, SS, DIBL, barrier, long channel, electrical channel length | [`extract`] | [`extract::ramp_figures`], [`extract::extract_long_channel`], [`extract::electrical_length::electrical_length`] |
+//! | V_t, SS, DIBL, the gate voltages they need, barrier, long channel, electrical channel length | [`extract`] | [`extract::ramp_figures`], [`extract::adaptive::adaptive_ramp`], [`extract::extract_long_channel`], [`extract::electrical_length::electrical_length`] |
 //! | closed forms, natural length, short-channel model (pure) | [`theory`] | [`theory::lambda_report`], [`theory::TheoryInputs`] |
 //! | a whole device, its reference, scans, the report type | [`evaluate`] | [`evaluate::Reference::of`], [`evaluate::evaluate`], [`evaluate::scan::scan`] |
 //! | capacitances from the solve, on-current and delay estimates, pitch splits | [`evaluate::capacitance`], [`evaluate::pitch`] | [`evaluate::capacitance::device_capacitance`], [`evaluate::pitch::run_pitch`] |

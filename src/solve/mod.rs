@@ -6,7 +6,7 @@
 //! | Anderson acceleration | [`anderson`] | [`Anderson`] |
 //! | channel quasi-Fermi level and current (MODEL.md section 4) | [`transport`] | [`transport::quasi_fermi`] |
 //! | the coupled potential / quasi-Fermi-level loop at one bias point | [`coupled`] | [`DeviceSolver::solve_bias_point`] |
-//! | bias continuation: drain ramp and gate ramp | [`ramp`] | [`DeviceSolver::gate_ramp`] |
+//! | bias continuation: drain ramp, grid points in any order, the whole gate grid | [`ramp`] | [`ramp::GateWalker`], [`DeviceSolver::gate_ramp`] |
 //! | one cross-section at a uniform quasi-Fermi level (planar column, fin, wire) | [`uniform`] | [`UniformChannel`] |
 //!
 //! Every solve returns a [`SolveReport`] with a [`Termination`]; a solve that
