@@ -327,10 +327,11 @@ fn every_command_follows_the_exit_code_table() {
     .replace("vgs_step_V = 0.02", "vgs_step_V = 0.03")
         + "\n[mesh]\nmax_step_nm = 1.0\n";
     std::fs::write(d.join("ok.toml"), &dg).unwrap();
-    // Stops short of the threshold current: V_t (and so several figures) missing.
+    // Stops short of the threshold current: V_t (and so several figures)
+    // missing (bias.auto_extend off, else the range would extend by itself).
     std::fs::write(
         d.join("short.toml"),
-        dg.replace("vgs_stop_V = 0.8", "vgs_stop_V = 0.1"),
+        dg.replace("vgs_stop_V = 0.8", "vgs_stop_V = 0.1\nauto_extend = false"),
     )
     .unwrap();
     // Too coarse at 40 nm: only 2 bias points in the SS window (SS missing there).

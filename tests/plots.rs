@@ -63,6 +63,7 @@ fn solved() -> &'static (PathBuf, SweepFile) {
             &dir,
             &base_device(),
             r#"base = "base.toml"
+fins = "theory"
 [axes]
 "geometry.gate_length_nm" = [14, 20, 30]
 "geometry.body_thickness_nm" = [6, 8]
@@ -77,7 +78,7 @@ ss_max_mV_per_dec = 80
     })
 }
 
-/// A tri-gate sweep: theory points only (no along-channel solve).
+/// A tri-gate sweep: theory points only (the plan key `fins = "theory"`: no along-channel solve).
 fn theory_only() -> &'static (PathBuf, SweepFile) {
     static S: OnceLock<(PathBuf, SweepFile)> = OnceLock::new();
     S.get_or_init(|| {
@@ -87,6 +88,7 @@ fn theory_only() -> &'static (PathBuf, SweepFile) {
             &dir,
             &String::from_utf8(t.stdout).unwrap(),
             r#"base = "base.toml"
+fins = "theory"
 [axes]
 "geometry.gate_length_nm" = [14, 20, 30]
 "geometry.body_thickness_nm" = [6, 8]

@@ -46,6 +46,14 @@ fn note(key: &str) -> Option<String> {
              less than half the gate length and an underlap shorter than the source/drain silicon"
                 .into()
         }
+        "bias.points" => "`auto` (default: adaptive unless an output stores the whole curve), \
+             `adaptive` (only the gate voltages the extraction needs) or `grid` (every gate \
+             voltage from vgs_start_V to vgs_stop_V)"
+            .into(),
+        "bias.auto_extend" => "`true` (default) or `false`: extend the gate range by itself, \
+             up to bias.extend_limit_V beyond each end, when a drain sweep misses the threshold \
+             current, the SS window or the off-state point"
+            .into(),
         _ => return None,
     })
 }
