@@ -169,7 +169,7 @@ pub fn length_figures(f: &SweepFile, criteria: &Criteria) -> Vec<Figure> {
             let answer = compliant.iter().find(|(l, _)| l == label).map(|(_, a)| *a);
             let suffix = match answer {
                 Some(Some((x, true))) => {
-                    format!(": compliant from {} nm (interpolated)", short_number(x))
+                    format!(": compliant from {x:.1} nm (interpolated)")
                 }
                 Some(Some((x, false))) => format!(": compliant from {} nm", short_number(x)),
                 Some(None) => ": none compliant".into(),
