@@ -463,7 +463,7 @@ fn the_plot_command_takes_criteria_and_notes_what_it_leaves_out() {
         .unwrap();
     let err = String::from_utf8_lossy(&bad.stderr);
     assert_eq!(bad.status.code(), Some(1), "{err}");
-    assert!(err.contains("--ss-max -3"), "{err}");
+    assert!(err.contains("--ss-max = -3"), "{err}");
 }
 
 #[test]

@@ -70,15 +70,11 @@ pub struct PlotArgs {
     /// No longer needed (the theory curves are stored in the sweep file); accepted and ignored.
     #[arg(long, value_name = "DIR", hide = true)]
     pub plan_dir: Option<PathBuf>,
-    /// Criterion line on the DIBL plot, mV/V (default: the plan's `[criteria]` stored in the file).
-    #[arg(long, value_name = "MV_PER_V")]
-    pub dibl_max: Option<f64>,
-    /// Criterion line on the SS plot, mV/dec (default: the plan's `[criteria]`).
-    #[arg(long, value_name = "MV_PER_DEC")]
-    pub ss_max: Option<f64>,
-    /// Bound on |V_t roll-off|, mV, drawn on the roll-off plot (default: the plan's `[criteria]`).
-    #[arg(long, value_name = "MV")]
-    pub vt_rolloff_max: Option<f64>,
+    /// Criteria drawn as lines on the DIBL, SS and roll-off plots, with the
+    /// shortest compliant length ringed (default: the plan's `[criteria]`
+    /// stored in the file).
+    #[command(flatten)]
+    pub criteria: super::criteria::CriteriaArgs,
 }
 
 /// `--shard I/N`, checked by the argument parser (a bad value is a usage error, exit 64).
@@ -208,30 +204,14 @@ pub fn plot(args: &PlotArgs) -> anyhow::Result<Exit> {
     let f = gatehold::io::hdf5::read_sweep(&args.file)?;
     // A stored plan whose [criteria] this version cannot read (written by a
     // newer one) leaves the lines to the options, with a warning.
-    let mut criteria = gatehold::plot::plan_criteria(&f).unwrap_or_else(|e| {
+    let criteria = gatehold::plot::plan_criteria(&f).unwrap_or_else(|e| {
         eprintln!(
             "warning: {}: {e}; criteria lines only from the options",
             args.file.display()
         );
         Default::default()
     });
-    for (option, value, slot) in [
-        ("--dibl-max", args.dibl_max, &mut criteria.dibl_max_mv_per_v),
-        ("--ss-max", args.ss_max, &mut criteria.ss_max_mv_per_dec),
-        (
-            "--vt-rolloff-max",
-            args.vt_rolloff_max,
-            &mut criteria.vt_rolloff_max_mv,
-        ),
-    ] {
-        if let Some(v) = value {
-            anyhow::ensure!(
-                v.is_finite() && v > 0.0,
-                "{option} {v}: must be a finite number > 0"
-            );
-            *slot = Some(v);
-        }
-    }
+    let criteria = args.criteria.over(&criteria)?;
     let outcome = gatehold::plot::sweep_plots_with(&f, &args.out, &criteria)?;
     for note in &outcome.notes {
         eprintln!("note: {}", note.reason);

@@ -156,16 +156,7 @@ fn describe(cols: &[&AxisKey], values: &[AxisValue]) -> String {
 
 /// Reads and validates a plan file; `base` is resolved relative to its folder.
 pub fn load_plan(path: &Path) -> Result<Plan, PlanError> {
-    let text = crate::device::read_input_file(path)
-        .map_err(|(path, reason)| PlanError::Io { path, reason })?;
-    let dir = path
-        .parent()
-        .map(Path::to_path_buf)
-        .unwrap_or_else(|| PathBuf::from("."));
-    let mut plan = parse_plan(&text, &dir)?;
-    plan.inputs[0].file = path.display().to_string();
-    plan.input_paths.insert(0, path.to_path_buf());
-    Ok(plan)
+    load_plan_with_fins(path, None)
 }
 
 /// Reads a plan's `base` device by the path the plan gives: the file's text,
@@ -413,16 +404,17 @@ pub fn with_fins(text: &str, m: FinMethod) -> Result<String, PlanError> {
 
 /// [`load_plan`] with the `--fins` option applied ([`with_fins`]).
 pub fn load_plan_with_fins(path: &Path, fins: Option<FinMethod>) -> Result<Plan, PlanError> {
-    let Some(m) = fins else {
-        return load_plan(path);
-    };
     let text = crate::device::read_input_file(path)
         .map_err(|(path, reason)| PlanError::Io { path, reason })?;
     let dir = path
         .parent()
         .map(Path::to_path_buf)
         .unwrap_or_else(|| PathBuf::from("."));
-    let mut plan = parse_plan(&with_fins(&text, m)?, &dir)?;
+    let text = match fins {
+        Some(m) => with_fins(&text, m)?,
+        None => text,
+    };
+    let mut plan = parse_plan(&text, &dir)?;
     plan.inputs[0].file = path.display().to_string();
     plan.input_paths.insert(0, path.to_path_buf());
     Ok(plan)
