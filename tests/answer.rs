@@ -15,26 +15,7 @@ use gatehold::sweep::{parse_plan, run_sweep, Quiet, SweepOptions};
 mod common;
 use common::{device, double_gate, solve_device};
 
-const SWEEP_DEVICE: &str = r#"
-name = "answer-dg"
-architecture = "double-gate"
-[geometry]
-gate_length_nm = 15
-body_thickness_nm = 5
-source_drain_length_nm = 8
-gate_height_nm = 5
-[[gate_stack]]
-material = "SiO2"
-thickness_nm = 1.0
-[gate]
-workfunction_eV = 4.6
-[bias]
-vgs_start_V = -0.3
-vgs_stop_V = 0.6
-vgs_step_V = 0.04
-[mesh]
-max_step_nm = 1.0
-"#;
+const SWEEP_DEVICE: &str = common::TINY_DG;
 
 const SWEEP_PLAN: &str = r#"base = "dev.toml"
 [axes]

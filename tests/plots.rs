@@ -263,7 +263,10 @@ fn criteria_are_lines_at_their_values_and_the_shortest_compliant_length_is_ringe
         w.sort_by(|a, b| a.1.total_cmp(&b.1));
         assert_eq!(got.len(), w.len(), "{stem}: {got:?} against {w:?}");
         for (x, (lo, hi)) in got.iter().zip(&w) {
-            assert!(*x > *lo && *x <= *hi, "{stem}: ring at {x} outside ({lo}, {hi}]");
+            assert!(
+                *x > *lo && *x <= *hi,
+                "{stem}: ring at {x} outside ({lo}, {hi}]"
+            );
         }
         // Each ring sits on its series' trace: on a point, or between two
         // neighbouring points with a value between theirs.

@@ -14,31 +14,15 @@
 //!
 //!     cargo test --release --test slurm -- --nocapture
 
+mod common;
+
 use std::path::{Path, PathBuf};
 use std::process::{Child, Command, Stdio};
 use std::time::{Duration, Instant};
 
 use gatehold::io::hdf5::read_sweep;
 
-const DEVICE: &str = r#"name = "slurm-dg"
-architecture = "double-gate"
-[geometry]
-gate_length_nm = 15
-body_thickness_nm = 5
-source_drain_length_nm = 8
-gate_height_nm = 5
-[[gate_stack]]
-material = "SiO2"
-thickness_nm = 1.0
-[gate]
-workfunction_eV = 4.6
-[bias]
-vgs_start_V = -0.3
-vgs_stop_V = 0.6
-vgs_step_V = 0.04
-[mesh]
-max_step_nm = 1.0
-"#;
+const DEVICE: &str = common::TINY_DG;
 
 /// Five points over three shards (shards of 2, 2 and 1 points).
 const PLAN: &str = r#"base = "dev.toml"

@@ -3,6 +3,8 @@
 //! and plots. Every test runs the real solver on small double-gate devices
 //! (1 nm mesh, 0.04 V gate steps: ~0.1-0.5 s per point).
 
+mod common;
+
 use std::path::{Path, PathBuf};
 use std::process::Command;
 use std::sync::OnceLock;
@@ -14,26 +16,7 @@ use gatehold::progress::Silent;
 use gatehold::sweep::plan::PlanError;
 use gatehold::sweep::{self, merge, parse_plan, run_sweep, Quiet, Shard, SweepError, SweepOptions};
 
-const DEVICE: &str = r#"
-name = "tiny-dg"
-architecture = "double-gate"
-[geometry]
-gate_length_nm = 15
-body_thickness_nm = 5
-source_drain_length_nm = 8
-gate_height_nm = 5
-[[gate_stack]]
-material = "SiO2"
-thickness_nm = 1.0
-[gate]
-workfunction_eV = 4.6
-[bias]
-vgs_start_V = -0.3
-vgs_stop_V = 0.6
-vgs_step_V = 0.04
-[mesh]
-max_step_nm = 1.0
-"#;
+const DEVICE: &str = common::TINY_DG;
 
 /// Six points: L_g (3) x zip(body, workfunction) (2); maps for points 1 and 4.
 const PLAN: &str = r#"base = "tiny.toml"

@@ -113,8 +113,12 @@ pub fn demo(args: &DemoArgs) -> anyhow::Result<Exit> {
     std::fs::write(&summary_file, &text)
         .with_context(|| format!("writing {}", summary_file.display()))?;
     print!("{text}");
-    let (pitch, pitch_missing) =
-        super::pitch::demo_part(&args.out, opts.jobs, args.criteria.dibl_max, args.criteria.ss_max)?;
+    let (pitch, pitch_missing) = super::pitch::demo_part(
+        &args.out,
+        opts.jobs,
+        args.criteria.dibl_max,
+        args.criteria.ss_max,
+    )?;
     let pitch = format!("\nPitch study of the node (ridge-7 double gate):\n{pitch}");
     super::pitch::append(&summary_file, &pitch)?;
     print!("{pitch}");

@@ -182,8 +182,8 @@ fn solve_structure(
     let ((lin, cap), sat) = rayon::join(
         || {
             let lin = ramp(solver, s.bias.vds_lin_v);
-            let cap = (method == Method::TwoDSolve)
-                .then(|| device_capacitance(s, &structure, solver3));
+            let cap =
+                (method == Method::TwoDSolve).then(|| device_capacitance(s, &structure, solver3));
             (lin, cap)
         },
         || ramp(solver2, s.bias.vds_sat_v),

@@ -205,7 +205,15 @@ pub fn graded_line_with_growth(
         far_step_nm: max_step,
         growth: 1.0,
     };
-    zoned_line_graded(hard_points, fine, &[(lo, hi)], rule, refinement, min_cells, grading)
+    zoned_line_graded(
+        hard_points,
+        fine,
+        &[(lo, hi)],
+        rule,
+        refinement,
+        min_cells,
+        grading,
+    )
 }
 
 /// Far-zone rule of a [`zoned_line`]: the maximum step applies inside the
@@ -232,7 +240,15 @@ pub fn zoned_line(
     refinement: f64,
     min_cells: usize,
 ) -> Line {
-    zoned_line_graded(hard_points, fine, cores, rule, refinement, min_cells, GROWTH)
+    zoned_line_graded(
+        hard_points,
+        fine,
+        cores,
+        rule,
+        refinement,
+        min_cells,
+        GROWTH,
+    )
 }
 
 /// [`zoned_line`] with its own growth of the step away from a refined end.

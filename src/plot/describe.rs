@@ -36,7 +36,9 @@ fn value_at(points: &[(f64, f64)], x: f64) -> Option<f64> {
     if let Some(p) = points.iter().find(|p| (p.0 - x).abs() < 1e-9) {
         return Some(p.1);
     }
-    let w = points.windows(2).find(|w| (w[0].0 - x) * (w[1].0 - x) < 0.0)?;
+    let w = points
+        .windows(2)
+        .find(|w| (w[0].0 - x) * (w[1].0 - x) < 0.0)?;
     let t = (x - w[0].0) / (w[1].0 - w[0].0);
     let (a, b) = (w[0].1, w[1].1);
     Some(if a > 0.0 && b > 0.0 {
@@ -215,7 +217,11 @@ pub fn length_figures(f: &SweepFile, criteria: &Criteria) -> Vec<Figure> {
                 }
             }
             if let Some(Some((x, _))) = answer {
-                let on = if solved.is_empty() { &as_theory } else { &solved };
+                let on = if solved.is_empty() {
+                    &as_theory
+                } else {
+                    &solved
+                };
                 if let Some(y) = value_at(on, x) {
                     fig.marks.push(Mark { x, y, colour: c });
                 }

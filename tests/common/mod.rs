@@ -8,6 +8,29 @@ pub fn device(text: &str) -> Scenario {
     parse_device(text).unwrap_or_else(|e| panic!("bad test device: {e}\n{text}"))
 }
 
+/// A small, fast double gate (coarse mesh, 0.04 V gate steps) for sweep,
+/// cluster and sweep-file tests.
+pub const TINY_DG: &str = r#"
+name = "tiny-dg"
+architecture = "double-gate"
+[geometry]
+gate_length_nm = 15
+body_thickness_nm = 5
+source_drain_length_nm = 8
+gate_height_nm = 5
+[[gate_stack]]
+material = "SiO2"
+thickness_nm = 1.0
+[gate]
+workfunction_eV = 4.6
+[bias]
+vgs_start_V = -0.3
+vgs_stop_V = 0.6
+vgs_step_V = 0.04
+[mesh]
+max_step_nm = 1.0
+"#;
+
 /// Undoped symmetric double gate with a single SiO2 layer.
 pub fn double_gate(lg_nm: f64, tsi_nm: f64, tox_nm: f64, extra: &str) -> Scenario {
     device(&format!(
