@@ -412,6 +412,7 @@ fn default_3d_mesh_is_converged_per_fin_architecture() {
     for arch in ["tri-gate", "gate-all-around", "capped-fin"] {
         let mut s = small_fin(arch);
         s.mesh.max_step_nm = 0.5;
+        s.bias.vgs_step_v = 0.025;
         if arch == "capped-fin" {
             s.geometry.cap_thickness_nm = 3.0;
         }
@@ -419,6 +420,9 @@ fn default_3d_mesh_is_converged_per_fin_architecture() {
         let mut fine = s.clone();
         fine.mesh.refinement = 2.0;
         let b = solve_at(&fine, 20.0);
+        for r in [&a, &b] {
+            assert!(r.problems.is_empty(), "{arch}: {:?}", r.problems);
+        }
         let dvt = 1000.0 * (a.vt_lin_v.unwrap() - b.vt_lin_v.unwrap());
         let ddibl = a.dibl_mv_per_v.unwrap() / b.dibl_mv_per_v.unwrap() - 1.0;
         println!(
