@@ -294,3 +294,40 @@ fn every_command_refuses_a_hostile_device_with_the_same_error() {
         assert!(!dir.path().join("o.h5").exists());
     }
 }
+
+#[test]
+fn a_fin_beyond_the_3d_budget_is_refused_before_its_mesh_is_built() {
+    // Source: the 3D node budget (`device::check_size_3d`, a tenth of
+    // mesh.max_nodes); the 2D cross-section of this fin is small, so only
+    // the 3D estimate can refuse it.
+    let dir = tempfile::tempdir().unwrap();
+    let (code, template, _) = run(&["template", "tri-gate"], dir.path());
+    assert_eq!(code, 0);
+    let long: String = template
+        .lines()
+        .map(|l| {
+            if l.starts_with("gate_length_nm") {
+                "gate_length_nm = 4000".to_string()
+            } else if l.starts_with("max_step_nm") {
+                // A 3D budget of 100k nodes (a tenth of mesh.max_nodes).
+                format!("{l}\nmax_nodes = 1000000")
+            } else {
+                l.to_string()
+            }
+        })
+        .collect::<Vec<_>>()
+        .join("\n");
+    std::fs::write(dir.path().join("long.toml"), long).unwrap();
+    let (code, _, err) = run(&["run", "--quiet", "long.toml"], dir.path());
+    assert_eq!(code, 1, "{err}");
+    assert!(
+        err.contains("geometry.gate_length_nm") && err.contains("3D fin mesh"),
+        "{err}"
+    );
+    // The theory path builds no 3D mesh and is not refused.
+    let (code, _, err) = run(
+        &["run", "--quiet", "--fins", "theory", "long.toml"],
+        dir.path(),
+    );
+    assert!(code == 0 || code == 2, "{err}");
+}

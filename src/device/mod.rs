@@ -570,6 +570,78 @@ pub fn estimate_nodes(s: &Scenario) -> (f64, &'static str) {
     (nodes, parts[0].0)
 }
 
+/// The 3D fin mesh's largest step in units of `mesh.max_step_nm` (the same
+/// number as `structure::fin3d::FIN3D_STEP_FACTOR`; a test holds them equal).
+pub const FIN3D_STEP_FACTOR_ESTIMATE: f64 = 3.0;
+
+/// Share of `mesh.max_nodes` a 3D fin mesh may use: a 3D factorisation fills
+/// far more per node than a 2D one (seen here: about 8 kB per node at 512k
+/// nodes against about 2 kB in 2D), so its budget is a tenth of the 2D one.
+pub const FIN3D_BUDGET_SHARE: f64 = 0.1;
+
+/// Lower estimate of a fin's 3D mesh nodes (mirror half; every cell at most
+/// [`FIN3D_STEP_FACTOR_ESTIMATE`] times the maximum step), and the key that
+/// dominates it.
+pub fn estimate_nodes_3d(s: &Scenario) -> (f64, &'static str) {
+    let g = &s.geometry;
+    let h = FIN3D_STEP_FACTOR_ESTIMATE * s.mesh.max_step_nm / s.mesh.refinement;
+    let t = s.stack_thickness_nm();
+    let gaa = s.architecture == Architecture::GateAllAround;
+    let y = if gaa {
+        g.body_thickness_nm / 2.0 + t + g.gate_height_nm
+    } else {
+        g.fin_pitch_nm / 2.0
+    };
+    let below = if gaa {
+        t + g.gate_height_nm
+    } else {
+        g.box_thickness_nm
+    };
+    let z = g.gate_height_nm + t + g.fin_height_nm + below;
+    let x = 2.0 * g.source_drain_length_nm + g.gate_length_nm;
+    let nodes = (x / h + 1.0) * (y / h + 1.0) * (z / h + 1.0);
+    let mut parts = [
+        ("geometry.gate_length_nm", g.gate_length_nm * y * z),
+        (
+            "geometry.source_drain_length_nm",
+            2.0 * g.source_drain_length_nm * y * z,
+        ),
+        (
+            if gaa {
+                "geometry.body_thickness_nm"
+            } else {
+                "geometry.fin_pitch_nm"
+            },
+            x * y * z / 2.0,
+        ),
+        ("geometry.fin_height_nm", g.fin_height_nm * x * y),
+        ("geometry.gate_height_nm", g.gate_height_nm * x * y),
+    ];
+    parts.sort_by(|a, b| b.1.total_cmp(&a.1));
+    (nodes, parts[0].0)
+}
+
+/// Refuses a fin whose 3D mesh would exceed its share of the node budget
+/// ([`FIN3D_BUDGET_SHARE`] of `mesh.max_nodes`), naming the estimate and the
+/// key that dominates it. Checked before a 3D mesh is built.
+pub fn check_size_3d(s: &Scenario) -> Result<(), DeviceError> {
+    let (nodes, key) = estimate_nodes_3d(s);
+    let budget = FIN3D_BUDGET_SHARE * s.mesh.max_nodes;
+    if nodes > budget {
+        return Err(invalid(
+            key,
+            geometry_value(s, key),
+            format!(
+                "the 3D fin mesh would hold at least {nodes:.0} nodes, beyond the 3D budget of {budget:.0} \
+                 (a tenth of mesh.max_nodes = {:.0}); shrink {key}, coarsen mesh.max_step_nm (now {}), \
+                 use --fins theory (plan key fins = \"theory\") or, on a big machine, raise mesh.max_nodes",
+                s.mesh.max_nodes, s.mesh.max_step_nm
+            ),
+        ));
+    }
+    Ok(())
+}
+
 /// Refuses a scenario whose estimated mesh exceeds its node budget
 /// (`mesh.max_nodes`), naming the estimate, the memory it implies and the
 /// key that dominates it.

@@ -27,6 +27,9 @@ pub enum EvaluateError {
     Reference(#[from] ReferenceError),
     #[error("the reference passed in belongs to another cross-section than device {0}")]
     WrongReference(String),
+    /// A fin whose 3D mesh is beyond the node budget (checked before it is built).
+    #[error(transparent)]
+    Size(#[from] crate::device::DeviceError),
 }
 
 /// A planar device's solution: the report plus what maps and band plots need.
@@ -133,6 +136,7 @@ pub fn solve_fin_3d(
     reference: &Reference,
     observer: &dyn Observer,
 ) -> Result<DeviceSolution, EvaluateError> {
+    crate::device::check_size_3d(s)?;
     solve_structure(s, reference, observer, along_fin(s), Method::ThreeDSolve)
 }
 

@@ -305,6 +305,29 @@ fn build(s: &Scenario, half: bool) -> AlongChannel {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn the_budget_estimate_uses_this_mesh_step() {
+        assert_eq!(crate::device::FIN3D_STEP_FACTOR_ESTIMATE, FIN3D_STEP_FACTOR);
+    }
+
+    #[test]
+    fn the_3d_estimate_is_a_lower_bound_of_the_built_mesh() {
+        use crate::device::Architecture;
+        for arch in [
+            Architecture::TriGate,
+            Architecture::GateAllAround,
+            Architecture::CappedFin,
+        ] {
+            let s = crate::device::parse_device(&crate::device::template::template(arch)).unwrap();
+            let (est, _) = crate::device::estimate_nodes_3d(&s);
+            let built = along_fin(&s).problem.node_count() as f64;
+            assert!(
+                est <= built,
+                "{arch}: estimate {est} above the built {built} nodes"
+            );
+        }
+    }
     use crate::device::parse_device;
     use crate::discretize::NodeKind;
 
