@@ -51,6 +51,25 @@ impl CriteriaVerdict {
 }
 
 impl Criteria {
+    /// The criteria in words: "DIBL <= 100 mV/V and SS <= 80 mV/dec" (or "no criteria").
+    pub fn text(&self) -> String {
+        let mut parts = Vec::new();
+        if let Some(d) = self.dibl_max_mv_per_v {
+            parts.push(format!("DIBL <= {d} mV/V"));
+        }
+        if let Some(s) = self.ss_max_mv_per_dec {
+            parts.push(format!("SS <= {s} mV/dec"));
+        }
+        if let Some(r) = self.vt_rolloff_max_mv {
+            parts.push(format!("|V_t roll-off| <= {r} mV"));
+        }
+        if parts.is_empty() {
+            "no criteria".into()
+        } else {
+            parts.join(" and ")
+        }
+    }
+
     /// These criteria with each given value put in place of its own
     /// (command-line options over a plan's `[criteria]`); every given value
     /// must be finite and positive (the error names the option).

@@ -237,22 +237,13 @@ pub fn length_figures(f: &SweepFile, criteria: &Criteria) -> Vec<Figure> {
     out
 }
 
-/// The criteria in words, e.g. "DIBL <= 100 mV/V, SS <= 80 mV/dec".
+/// The criteria in words ([`Criteria::text`]; SS is the larger of lin and sat).
 pub fn criteria_text(c: &Criteria) -> String {
-    let mut parts = Vec::new();
-    if let Some(x) = c.dibl_max_mv_per_v {
-        parts.push(format!("DIBL <= {} mV/V", short_number(x)));
+    if c.ss_max_mv_per_dec.is_some() {
+        format!("{}; SS the larger of lin and sat", c.text())
+    } else {
+        c.text()
     }
-    if let Some(x) = c.ss_max_mv_per_dec {
-        parts.push(format!(
-            "SS (larger of lin, sat) <= {} mV/dec",
-            short_number(x)
-        ));
-    }
-    if let Some(x) = c.vt_rolloff_max_mv {
-        parts.push(format!("|roll-off| <= {} mV", short_number(x)));
-    }
-    parts.join(", ")
 }
 
 /// The criterion lines of one figure (by its column).

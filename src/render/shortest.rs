@@ -1,7 +1,6 @@
 //! The shortest compliant gate length in words: one line per series, for the
 //! end of `scan` and `sweep`.
 
-use super::summary::criteria_text;
 use crate::evaluate::{AnswerKind, Criteria, ShortestAnswer};
 
 /// One series' answer in words (`lambda_nm`: the series' numeric natural length).
@@ -59,6 +58,6 @@ pub fn heading(c: &Criteria) -> String {
     format!(
         "Shortest compliant gate length with {} (SS: the larger of lin and sat; DIBL and |roll-off| \
          interpolated log-linearly in L_g, SS linearly):\n",
-        criteria_text(c)
+        c.text()
     )
 }

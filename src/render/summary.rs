@@ -22,25 +22,6 @@ pub struct DemoSummary {
     pub summary_file: PathBuf,
 }
 
-/// "DIBL <= 100 mV/V and SS <= 80 mV/dec" for the given criteria.
-pub fn criteria_text(c: &Criteria) -> String {
-    let mut parts = Vec::new();
-    if let Some(d) = c.dibl_max_mv_per_v {
-        parts.push(format!("DIBL <= {d} mV/V"));
-    }
-    if let Some(s) = c.ss_max_mv_per_dec {
-        parts.push(format!("SS <= {s} mV/dec"));
-    }
-    if let Some(r) = c.vt_rolloff_max_mv {
-        parts.push(format!("|V_t roll-off| <= {r} mV"));
-    }
-    if parts.is_empty() {
-        "no criteria".into()
-    } else {
-        parts.join(" and ")
-    }
-}
-
 /// One table row per series: the shortest compliant length and the figures there.
 pub fn shortest_text(series: &[(SeriesOutcome, Method)], range_nm: (f64, f64)) -> String {
     let (lo, hi) = range_nm;
@@ -97,7 +78,7 @@ pub fn demo_text(r: &DemoSummary) -> String {
         r.points,
         r.failed_points,
         r.elapsed_s,
-        criteria_text(&r.criteria),
+        r.criteria.text(),
     );
     t.push_str(&shortest_text(&r.series, (lo, hi)));
     t.push_str("\nInterpolated between solved lengths (DIBL and |roll-off| log-linear in L_g, SS linear):\n");
