@@ -37,6 +37,13 @@ fn dir() -> &'static Path {
         let d = tempfile::tempdir().unwrap();
         std::fs::write(d.path().join("tiny.toml"), DEVICE).unwrap();
         std::fs::write(d.path().join("plan.toml"), PLAN).unwrap();
+        // The same points on a mesh four times finer: each point runs long
+        // enough (about a second) for a second signal to arrive during it.
+        std::fs::write(
+            d.path().join("plan-slow.toml"),
+            PLAN.replace("[zip]", "\"mesh.refinement\" = [4]\n[zip]"),
+        )
+        .unwrap();
         d
     })
     .path()
@@ -640,9 +647,14 @@ fn killed_binary_leaves_a_resumable_file() {
 
 /// `gatehold sweep plan.toml --out OUT --jobs 1 --quiet`, stderr captured.
 fn spawn_sweep(out: &Path) -> std::process::Child {
+    spawn_plan("plan.toml", out)
+}
+
+/// `gatehold sweep PLAN --out OUT --jobs 1 --quiet`, stderr captured.
+fn spawn_plan(plan: &str, out: &Path) -> std::process::Child {
     Command::new(env!("CARGO_BIN_EXE_gatehold"))
         .arg("sweep")
-        .arg(dir().join("plan.toml"))
+        .arg(dir().join(plan))
         .arg("--out")
         .arg(out)
         .args(["--jobs", "1", "--quiet"])
@@ -678,9 +690,8 @@ fn resume_to_the_reference(out: &Path, r: &SweepFile) {
 /// file is left, and `--resume` finishes the file with the reference's points.
 #[test]
 fn ctrl_c_stops_cleanly_with_exit_3_and_resumes() {
-    let (_, r) = reference();
     let out = dir().join("interrupted.h5");
-    let child = spawn_sweep(&out);
+    let child = spawn_plan("plan-slow.toml", &out);
     wait_for_a_point(&out);
     let sent = Command::new("kill")
         .args(["-INT", &child.id().to_string()])
@@ -695,7 +706,7 @@ fn ctrl_c_stops_cleanly_with_exit_3_and_resumes() {
     assert!(stderr.contains("interrupted"), "{stderr}");
     assert!(part.rows.len() < 6 && !part.is_complete());
     assert!(!dir().join("interrupted.h5.tmp").exists());
-    resume_to_the_reference(&out, r);
+    resume_completes("plan-slow.toml", &out);
 }
 
 /// SIGTERM (what Slurm sends at a time limit) is handled like Ctrl-C, and a
@@ -703,9 +714,8 @@ fn ctrl_c_stops_cleanly_with_exit_3_and_resumes() {
 /// checkpoint, readable, with no `.tmp` left.
 #[test]
 fn sigterm_then_a_second_signal_exits_at_once_leaving_the_last_checkpoint() {
-    let (_, r) = reference();
     let out = dir().join("terminated.h5");
-    let child = spawn_sweep(&out);
+    let child = spawn_plan("plan-slow.toml", &out);
     wait_for_a_point(&out);
     for signal in ["-TERM", "-INT"] {
         let sent = Command::new("kill")
@@ -718,7 +728,7 @@ fn sigterm_then_a_second_signal_exits_at_once_leaving_the_last_checkpoint() {
     let done = child.wait_with_output().unwrap();
     let stderr = String::from_utf8_lossy(&done.stderr);
     assert_eq!(done.status.code(), Some(3), "{stderr}");
-    // The second signal came while a point (0.1-0.5 s) was still running.
+    // The second signal came while a point (about a second on this mesh) was still running.
     assert!(
         stderr.contains("interrupted") && stderr.contains("stopped at once"),
         "{stderr}"
@@ -726,7 +736,23 @@ fn sigterm_then_a_second_signal_exits_at_once_leaving_the_last_checkpoint() {
     let part = read_sweep(&out).unwrap();
     assert!(!part.rows.is_empty() && !part.is_complete(), "{stderr}");
     assert!(!dir().join("terminated.h5.tmp").exists());
-    resume_to_the_reference(&out, r);
+    resume_completes("plan-slow.toml", &out);
+}
+
+/// `--resume` through the binary exits 0 with the plan's 6 points, in plan order.
+fn resume_completes(plan: &str, out: &Path) {
+    let st = Command::new(env!("CARGO_BIN_EXE_gatehold"))
+        .arg("sweep")
+        .arg(dir().join(plan))
+        .arg("--out")
+        .arg(out)
+        .args(["--resume", "--quiet"])
+        .status()
+        .unwrap();
+    assert_eq!(st.code(), Some(0));
+    let done = read_sweep(out).unwrap();
+    assert!(done.is_complete() && done.rows.len() == 6);
+    assert!(done.rows.iter().enumerate().all(|(k, r)| r.index == k));
 }
 
 /// A sweep file knows its device: after the base device file changes,
