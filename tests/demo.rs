@@ -120,6 +120,30 @@ fn reduced_demo_file_summary_and_plots_agree() {
             "2d-solve"
         };
         assert!(line.contains(method), "{line}");
+        // The leakiest line's place across and down the fin: stored for the
+        // 3D solve, inside the fin (|y| <= W/2, 0 <= z <= H); absent in 2D.
+        let (ly, lz) = (
+            f.figure("leakiest_y_nm").unwrap(),
+            f.figure("leakiest_z_nm").unwrap(),
+        );
+        for &k in &rows {
+            if *arch == "tri-gate" {
+                assert!(
+                    ly[k].is_finite() && lz[k].is_finite(),
+                    "{arch}: {} {}",
+                    ly[k],
+                    lz[k]
+                );
+                assert!(
+                    ly[k].abs() <= 0.5 * 8.0 + 1e-9 && lz[k] >= -1e-9,
+                    "{} {}",
+                    ly[k],
+                    lz[k]
+                );
+            } else {
+                assert!(ly[k].is_nan() && lz[k].is_nan(), "{arch}");
+            }
+        }
     }
     // The double gate holds the targets at a shorter or equal length than bulk.
     let short = |a: usize| {

@@ -250,6 +250,8 @@ pub const SCALARS: &[(&str, Scalar)] = &[
     ("barrier_sat_eV", |r| r.barrier_sat_ev),
     ("barrier_lowering_meV", |r| r.barrier_lowering_mev),
     ("leakiest_depth_nm", |r| r.leakiest_depth_nm),
+    ("leakiest_y_nm", |r| r.leakiest_y_nm),
+    ("leakiest_z_nm", |r| r.leakiest_z_nm),
     ("natural_length_nm", |r| r.natural_length_nm),
     ("lambda_numeric_nm", |r| r.lambda_numeric_nm),
     ("theory_rolloff_mV", |r| r.theory_rolloff_mv),

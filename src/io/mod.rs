@@ -401,6 +401,14 @@ const FIGURE_DESCRIPTIONS: &[(&str, &str)] = &[
         "depth below the top silicon surface of the leakiest path",
     ),
     (
+        "leakiest_y_nm",
+        "3D fins and wires: the leakiest line's distance across the fin from its centre, at V_DS,sat",
+    ),
+    (
+        "leakiest_z_nm",
+        "3D fins and wires: the leakiest line's depth below the top silicon surface, at V_DS,sat",
+    ),
+    (
         "natural_length_nm",
         "closed-form natural length (the headline formula for the architecture)",
     ),
