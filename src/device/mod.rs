@@ -515,17 +515,7 @@ pub fn estimate_nodes(s: &Scenario) -> (f64, &'static str) {
         )
     } else {
         let gaa = s.architecture == Architecture::GateAllAround;
-        let x = if gaa {
-            g.body_thickness_nm / 2.0 + t + g.gate_height_nm
-        } else {
-            g.fin_pitch_nm / 2.0
-        };
-        let extra = if gaa {
-            t + g.gate_height_nm
-        } else {
-            g.box_thickness_nm
-        };
-        let y = g.gate_height_nm + t + g.fin_height_nm + extra;
+        let (x, y) = fin_cross_section_extent_nm(s);
         (
             x,
             y,
@@ -579,25 +569,34 @@ pub const FIN3D_STEP_FACTOR_ESTIMATE: f64 = 3.0;
 /// nodes against about 2 kB in 2D), so its budget is a tenth of the 2D one.
 pub const FIN3D_BUDGET_SHARE: f64 = 0.1;
 
+/// The meshed half of a fin or wire cross-section: its width (the mirror
+/// half: half the fin pitch, or half a wire with its stack and gate) and its
+/// height from the gate top through the buried oxide (or the gate below a
+/// wire), nm.
+fn fin_cross_section_extent_nm(s: &Scenario) -> (f64, f64) {
+    let g = &s.geometry;
+    let t = s.stack_thickness_nm();
+    if s.architecture == Architecture::GateAllAround {
+        (
+            g.body_thickness_nm / 2.0 + t + g.gate_height_nm,
+            g.gate_height_nm + t + g.fin_height_nm + t + g.gate_height_nm,
+        )
+    } else {
+        (
+            g.fin_pitch_nm / 2.0,
+            g.gate_height_nm + t + g.fin_height_nm + g.box_thickness_nm,
+        )
+    }
+}
+
 /// Lower estimate of a fin's 3D mesh nodes (mirror half; every cell at most
 /// [`FIN3D_STEP_FACTOR_ESTIMATE`] times the maximum step), and the key that
 /// dominates it.
 pub fn estimate_nodes_3d(s: &Scenario) -> (f64, &'static str) {
     let g = &s.geometry;
     let h = FIN3D_STEP_FACTOR_ESTIMATE * s.mesh.max_step_nm / s.mesh.refinement;
-    let t = s.stack_thickness_nm();
     let gaa = s.architecture == Architecture::GateAllAround;
-    let y = if gaa {
-        g.body_thickness_nm / 2.0 + t + g.gate_height_nm
-    } else {
-        g.fin_pitch_nm / 2.0
-    };
-    let below = if gaa {
-        t + g.gate_height_nm
-    } else {
-        g.box_thickness_nm
-    };
-    let z = g.gate_height_nm + t + g.fin_height_nm + below;
+    let (y, z) = fin_cross_section_extent_nm(s);
     let x = 2.0 * g.source_drain_length_nm + g.gate_length_nm;
     let nodes = (x / h + 1.0) * (y / h + 1.0) * (z / h + 1.0);
     let mut parts = [
