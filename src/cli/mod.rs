@@ -58,7 +58,7 @@ enum Command {
         #[arg(long)]
         json: bool,
     },
-    /// Solve (planar) or predict (fins, wires) several gate lengths, beside the theory.
+    /// Solve several gate lengths (2D planar, 3D fins and wires), beside the theory.
     Scan {
         /// Device file (TOML).
         device: PathBuf,
