@@ -787,33 +787,21 @@ fn resume_and_merge_refuse_a_changed_base_device_naming_it() {
     )
     .unwrap();
     run_sweep(&load(), &b, &shard(1), &Quiet).unwrap();
-    let e = run_sweep(
-        &load(),
-        &a,
-        &SweepOptions {
+    let resume_shard_0 = || {
+        let resume = SweepOptions {
             resume: true,
             ..shard(0)
-        },
-        &Quiet,
-    )
-    .unwrap_err()
-    .to_string();
+        };
+        run_sweep(&load(), &a, &resume, &Quiet)
+    };
+    let e = resume_shard_0().unwrap_err().to_string();
     assert!(
         e.contains("base file tiny.toml changed") && e.contains("sha256"),
         "{e}"
     );
     // Finish shard 0 with the old device, then try to merge it with shard 1.
     std::fs::write(d.path().join("tiny.toml"), DEVICE).unwrap();
-    run_sweep(
-        &load(),
-        &a,
-        &SweepOptions {
-            resume: true,
-            ..shard(0)
-        },
-        &Quiet,
-    )
-    .unwrap();
+    resume_shard_0().unwrap();
     let e = merge(&[a.as_path(), b.as_path()], &d.path().join("m.h5"), "m")
         .unwrap_err()
         .to_string();
