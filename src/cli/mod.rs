@@ -105,7 +105,7 @@ enum Command {
     Pitch(pitch::PitchArgs),
     /// Print a commented device file to start from.
     Template {
-        /// bulk | thin-body | double-gate | tri-gate | gate-all-around | capped-fin
+        /// bulk | thin-body | double-gate | tri-gate | gate-all-around | capped-fin | bulk-fin
         architecture: String,
     },
 }

@@ -78,6 +78,7 @@ const TABLE_KEYS: &[(&str, &[&str])] = &[
             "spacer_thickness_nm",
             "contact_width_nm",
             "spacer_permittivity",
+            "isolation_depth_nm",
         ],
     ),
     (
@@ -91,6 +92,7 @@ const TABLE_KEYS: &[(&str, &[&str])] = &[
             "source_drain_cm3",
             "junction_offset_nm",
             "junction_gradient_nm_per_decade",
+            "subfin_cm3",
         ],
     ),
     (
@@ -385,6 +387,7 @@ pub const LIMITS: &[Limit] = &[
     Limit { key: "geometry.substrate_depth_nm", min: 2.0, max: 10_000.0, unit: "nm", why: "substrate between 2 nm and 10 um deep" },
     Limit { key: "geometry.gate_height_nm", min: 1.0, max: 2_000.0, unit: "nm", why: "a gate electrode thinner than 1 nm is not an electrode; above 2 um it only adds mesh" },
     Limit { key: "geometry.cap_thickness_nm", min: 0.5, max: 500.0, unit: "nm", why: "fin cap between 0.5 nm and 500 nm" },
+    Limit { key: "geometry.isolation_depth_nm", min: 1.0, max: 500.0, unit: "nm", why: "bulk fin: isolation oxide beside the sub-fin between 1 nm and 500 nm deep" },
     Limit { key: "gate_stack.N.thickness_nm", min: 0.1, max: 200.0, unit: "nm", why: "below 0.1 nm (one atomic layer) the mesh cannot resolve it; above 200 nm it is not a gate dielectric" },
     Limit { key: "gate_stack.N.relative_permittivity", min: 1.0, max: 1_000.0, unit: "", why: "a dielectric's relative permittivity" },
     Limit { key: "temperature_K", min: 50.0, max: 600.0, unit: "K", why: "the silicon models hold from 50 K to 600 K" },
@@ -456,6 +459,12 @@ pub const DEFAULT_MAX_FAR_STEP_NM: f64 = 4.0;
 
 /// Default furthest extension of the gate range beyond each end (`bias.extend_limit_V`), V.
 pub const DEFAULT_EXTEND_LIMIT_V: f64 = 3.0;
+
+/// Bulk fin: default isolation oxide depth below the gated fin (`geometry.isolation_depth_nm`), nm.
+pub const DEFAULT_ISOLATION_DEPTH_NM: f64 = 20.0;
+
+/// Bulk fin: default substrate silicon below the isolation (`geometry.substrate_depth_nm`), nm.
+pub const DEFAULT_BULK_FIN_SUBSTRATE_DEPTH_NM: f64 = 30.0;
 
 /// Default node budget (`mesh.max_nodes`): about 120 times the demo bulk device (about 8 GB by the estimate below).
 pub const DEFAULT_MAX_NODES: f64 = 4_000_000.0;
@@ -531,8 +540,12 @@ pub fn estimate_nodes(s: &Scenario) -> (f64, &'static str) {
                 ("geometry.fin_height_nm", g.fin_height_nm * x),
                 ("geometry.gate_height_nm", g.gate_height_nm * (x + y)),
                 (
-                    "geometry.box_thickness_nm",
-                    if gaa { 0.0 } else { g.box_thickness_nm * x },
+                    if s.architecture == Architecture::BulkFin {
+                        "geometry.substrate_depth_nm"
+                    } else {
+                        "geometry.box_thickness_nm"
+                    },
+                    if gaa { 0.0 } else { below_fin_nm(s) * x },
                 ),
                 ("gate_stack.0.thickness_nm", t * (x + y)),
             ],
@@ -584,8 +597,19 @@ fn fin_cross_section_extent_nm(s: &Scenario) -> (f64, f64) {
     } else {
         (
             g.fin_pitch_nm / 2.0,
-            g.gate_height_nm + t + g.fin_height_nm + g.box_thickness_nm,
+            g.gate_height_nm + t + g.fin_height_nm + below_fin_nm(s),
         )
+    }
+}
+
+/// Depth of the domain below the fin's bottom plane, nm: the buried oxide,
+/// or for a bulk fin the isolation oxide and the substrate silicon.
+fn below_fin_nm(s: &Scenario) -> f64 {
+    let g = &s.geometry;
+    if s.architecture == Architecture::BulkFin {
+        g.isolation_depth_nm + g.substrate_depth_nm
+    } else {
+        g.box_thickness_nm
     }
 }
 
@@ -615,6 +639,14 @@ pub fn estimate_nodes_3d(s: &Scenario) -> (f64, &'static str) {
         ),
         ("geometry.fin_height_nm", g.fin_height_nm * x * y),
         ("geometry.gate_height_nm", g.gate_height_nm * x * y),
+        (
+            "geometry.substrate_depth_nm",
+            if s.architecture == Architecture::BulkFin {
+                below_fin_nm(s) * x * y
+            } else {
+                0.0
+            },
+        ),
     ];
     parts.sort_by(|a, b| b.1.total_cmp(&a.1));
     (nodes, parts[0].0)
@@ -879,7 +911,7 @@ pub fn scenario_from_table(root: &toml::Table) -> Result<Scenario, DeviceError> 
         .string("architecture")?
         .ok_or_else(|| DeviceError::Missing {
             key: "architecture".into(),
-            reason: "one of bulk, thin-body, double-gate, tri-gate, gate-all-around, capped-fin"
+            reason: "one of bulk, thin-body, double-gate, tri-gate, gate-all-around, capped-fin, bulk-fin"
                 .into(),
         })?;
     let architecture = Architecture::from_name(arch_name).ok_or_else(|| {
@@ -929,7 +961,9 @@ pub fn scenario_from_table(root: &toml::Table) -> Result<Scenario, DeviceError> 
                 arch,
                 Architecture::ThinBody | Architecture::TriGate | Architecture::CappedFin
             ),
-            "junction_depth_nm" | "substrate_depth_nm" => arch == Architecture::Bulk,
+            "junction_depth_nm" => arch == Architecture::Bulk,
+            "substrate_depth_nm" => matches!(arch, Architecture::Bulk | Architecture::BulkFin),
+            "isolation_depth_nm" => arch == Architecture::BulkFin,
             "cap_thickness_nm" | "cap_material" => arch == Architecture::CappedFin,
             "gate_pitch_nm" | "spacer_thickness_nm" | "contact_width_nm" => arch.is_planar(),
             _ => true,
@@ -1091,13 +1125,21 @@ pub fn scenario_from_table(root: &toml::Table) -> Result<Scenario, DeviceError> 
             None => g("source_drain_length_nm", 15.0)?,
         },
         junction_depth_nm: g("junction_depth_nm", 15.0)?,
-        substrate_depth_nm: g("substrate_depth_nm", 100.0)?,
+        substrate_depth_nm: g(
+            "substrate_depth_nm",
+            if arch == Architecture::BulkFin {
+                DEFAULT_BULK_FIN_SUBSTRATE_DEPTH_NM
+            } else {
+                100.0
+            },
+        )?,
         gate_height_nm: g("gate_height_nm", 20.0)?,
         spacer_eps,
         spacer_material,
         box_eps,
         cap_thickness_nm: g("cap_thickness_nm", 10.0)?,
         cap_eps,
+        isolation_depth_nm: g("isolation_depth_nm", DEFAULT_ISOLATION_DEPTH_NM)?,
         contacts,
     };
     if arch == Architecture::Bulk && geometry.junction_depth_nm >= geometry.substrate_depth_nm {
@@ -1208,8 +1250,22 @@ pub fn scenario_from_table(root: &toml::Table) -> Result<Scenario, DeviceError> 
             "must be 0 (abrupt) or up to 20 nm/decade",
         ));
     }
+    let subfin_cm3 = r.number("doping.subfin_cm3")?.unwrap_or(channel_cm3);
+    if !(subfin_cm3 == 0.0 || (1e10..=5e20).contains(&subfin_cm3)) {
+        return Err(invalid(
+            "doping.subfin_cm3",
+            show_number(subfin_cm3),
+            "must be 0 (undoped) or between 1e10 and 5e20 cm^-3 (sub-fin and substrate dopants, the channel's type)",
+        ));
+    }
+    if arch != Architecture::BulkFin && r.given("doping.subfin_cm3") {
+        warnings.push(format!(
+            "doping.subfin_cm3 has no effect for architecture {arch}"
+        ));
+    }
     let doping = Doping {
         channel_per_nm3: channel_cm3 * PER_CM3_TO_PER_NM3,
+        subfin_per_nm3: subfin_cm3 * PER_CM3_TO_PER_NM3,
         source_drain_per_nm3: source_drain_cm3 * PER_CM3_TO_PER_NM3,
         junction_offset_nm,
         junction_gradient_nm_per_decade,

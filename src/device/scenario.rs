@@ -17,16 +17,20 @@ pub enum Architecture {
     GateAllAround,
     /// A fin gated on its two sides only, under a thick dielectric cap.
     CappedFin,
+    /// A tri-gated fin on a bulk substrate: a sub-fin through an isolation
+    /// oxide down to substrate silicon with a contact on its bottom face.
+    BulkFin,
 }
 
 impl Architecture {
-    pub const ALL: [Architecture; 6] = [
+    pub const ALL: [Architecture; 7] = [
         Architecture::Bulk,
         Architecture::ThinBody,
         Architecture::DoubleGate,
         Architecture::TriGate,
         Architecture::GateAllAround,
         Architecture::CappedFin,
+        Architecture::BulkFin,
     ];
 
     pub fn name(&self) -> &'static str {
@@ -37,6 +41,7 @@ impl Architecture {
             Architecture::TriGate => "tri-gate",
             Architecture::GateAllAround => "gate-all-around",
             Architecture::CappedFin => "capped-fin",
+            Architecture::BulkFin => "bulk-fin",
         }
     }
 
@@ -134,6 +139,8 @@ pub struct Geometry {
     /// Capped fin: dielectric cap thickness on the fin top.
     pub cap_thickness_nm: f64,
     pub cap_eps: f64,
+    /// Bulk fin: isolation oxide beside the sub-fin, below the gated fin, nm.
+    pub isolation_depth_nm: f64,
     /// Contact plugs beside the gate (planar sections); None: the section
     /// without plugs, its ohmic contacts on the outer silicon faces.
     pub contacts: Option<Contacts>,
@@ -182,6 +189,9 @@ pub struct Doping {
     pub junction_offset_nm: f64,
     /// 0: abrupt; else a decade per this length.
     pub junction_gradient_nm_per_decade: f64,
+    /// Bulk fin: dopant density of the sub-fin and substrate (the
+    /// punch-through stopper, same type as the channel), nm^-3.
+    pub subfin_per_nm3: f64,
 }
 
 /// Bias plan, V, as the user typed it (for p-channel devices these are negative).

@@ -11,6 +11,13 @@ pub fn template(arch: Architecture) -> String {
         Architecture::TriGate => "body_thickness_nm = 8          # fin width\nfin_height_nm = 30             # fin height\nbox_thickness_nm = 25          # buried oxide under the fin\n# fin_pitch_nm = 40            # default: fin width + 2 x stack + 20 nm\n",
         Architecture::GateAllAround => "body_thickness_nm = 8          # wire or sheet width\nfin_height_nm = 8              # wire or sheet height\n",
         Architecture::CappedFin => "body_thickness_nm = 8          # fin width\nfin_height_nm = 30             # fin height\ncap_thickness_nm = 10          # dielectric cap on the fin top (gate on the two sides only)\nbox_thickness_nm = 25          # buried oxide under the fin\n",
+        Architecture::BulkFin => "body_thickness_nm = 8          # fin width (the sub-fin below has the same width)\nfin_height_nm = 30             # gated fin height, above the isolation top\nisolation_depth_nm = 20        # isolation oxide beside the sub-fin, below the gated fin\nsubstrate_depth_nm = 30        # substrate silicon below the isolation; substrate contact on its bottom face\n# fin_pitch_nm = 40            # default: fin width + 2 x stack + 20 nm\n",
+    };
+    // The bulk fin's sub-fin and substrate carry a punch-through stopper.
+    let subfin = if arch == Architecture::BulkFin {
+        "subfin_cm3 = 3e18              # sub-fin and substrate (punch-through stopper); default: channel_cm3\n"
+    } else {
+        ""
     };
     let doping = if arch == Architecture::Bulk {
         "3e18"
@@ -39,7 +46,7 @@ pub fn template(arch: Architecture) -> String {
         r#"# gatehold device file ({arch}). Lengths nm, doping cm^-3, voltages V, work functions eV.
 # Run: gatehold run this.toml   (gatehold run --help for outputs)
 name = "my-{arch}"
-architecture = "{arch}"      # bulk | thin-body | double-gate | tri-gate | gate-all-around | capped-fin
+architecture = "{arch}"      # bulk | thin-body | double-gate | tri-gate | gate-all-around | capped-fin | bulk-fin
 polarity = "n"                 # n | p (p: drain and gate biases negative)
 temperature_K = 300
 
@@ -68,7 +75,7 @@ channel_cm3 = {doping}             # acceptors for n, donors for p; 0 = undoped
 source_drain_cm3 = 1e20
 junction_offset_nm = 0         # > 0 overlap under the gate, < 0 underlap
 junction_gradient_nm_per_decade = 0   # 0 abrupt
-
+{subfin}
 [bias]
 vds_lin_V = 0.05
 vds_sat_V = 0.8

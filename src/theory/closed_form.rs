@@ -50,6 +50,8 @@ pub fn natural_length(s: &Scenario) -> Option<(&'static str, f64)> {
         Architecture::TriGate => "colinge-2004-n3",
         Architecture::GateAllAround => "colinge-2004-n4",
         Architecture::CappedFin => "colinge-2004-n2",
+        // A bulk fin is gated on three sides like a tri-gate.
+        Architecture::BulkFin => "colinge-2004-n3",
     };
     table(s, None).get(name).map(|&v| (name, v))
 }
@@ -104,7 +106,9 @@ pub fn table(s: &Scenario, depth_nm: Option<f64>) -> BTreeMap<String, f64> {
                 );
             }
         }
-        Architecture::TriGate => put("colinge-2004-n3", Some(multi_gate_colinge(t, eot, 3.0))),
+        Architecture::TriGate | Architecture::BulkFin => {
+            put("colinge-2004-n3", Some(multi_gate_colinge(t, eot, 3.0)))
+        }
         Architecture::GateAllAround => {
             put("colinge-2004-n4", Some(multi_gate_colinge(t, eot, 4.0)))
         }
