@@ -19,7 +19,7 @@ use crate::progress::{Observer, SolveKind};
 use crate::solve::{SolveError, UniformChannel};
 use crate::structure::{cross_section, CrossSection, WIDTH_DEFINITION};
 use crate::theory::closed_form::max_depletion_width_nm;
-use crate::theory::lambda::{section_natural_lengths, section_report};
+use crate::theory::lambda::{eigen_section, section_natural_lengths, section_report};
 use crate::theory::short_channel::source_drain_potential_v;
 use crate::theory::{lambda_report, DepthSource, LambdaReport, TheoryError, TheoryInputs};
 
@@ -181,7 +181,12 @@ pub fn natural_length(
 /// A fin or wire: the cross-section's modes and its long-channel solve.
 fn fin(s: &Scenario, observer: &dyn Observer) -> Result<Reference, ReferenceError> {
     let cs = cross_section(s).map_err(TheoryError::from)?;
-    let section = section_natural_lengths(&cs);
+    // A bulk fin's modes come from its section grounded at the sub-fin's depletion depth.
+    let eigen = match s.architecture {
+        Architecture::BulkFin => Some(eigen_section(s)?),
+        _ => None,
+    };
+    let section = section_natural_lengths(eigen.as_ref().unwrap_or(&cs));
     let lambda = section.map(|sl| section_report(s, &cs, &sl));
     observer.solved(SolveKind::NaturalLength);
     let mut ch = UniformChannel::fin(s, &cs)?;
@@ -214,11 +219,14 @@ fn fin_section(s: &Scenario, cs: &CrossSection, ch: &UniformChannel) -> FinSecti
     let n_side = ch.carrier_density(cs.side_centre_node, 0.0);
     let p = &cs.problem;
     let psi = ch.potential();
+    // The gated fin's silicon (0 <= y <= H): a bulk fin's sub-fin and
+    // substrate below it are the punch-through stopper, not the channel.
+    let h = cs.fin_height_nm + 1e-9;
     let phi_s = p
         .semi_area
         .iter()
         .enumerate()
-        .filter(|(_, a)| **a > 0.0)
+        .filter(|(k, a)| **a > 0.0 && p.y.nodes[k / p.nx] <= h)
         .map(|(k, _)| psi[k])
         .min_by(|a, b| (sign * a).total_cmp(&(sign * b)))
         .expect("a fin cross-section has silicon nodes");

@@ -23,6 +23,14 @@
 //!   wide as the fin on its top; the gate stack wraps the fin-plus-cap core
 //!   (its two sides and the cap's top) and the gate metal lies over that;
 //!   buried oxide and back plane as for the tri-gate.
+//! - bulk fin: the gated fin as a tri-gate's (stack and metal down to y = H),
+//!   no buried oxide; below y = H a sub-fin as wide as the fin through an
+//!   isolation oxide (SiO2, `isolation_depth_nm`), then substrate silicon
+//!   (`substrate_depth_nm`) over the whole width with the substrate contact
+//!   ([`SUBSTRATE`], 0 V, neutrality) on its bottom face. The fin holds the
+//!   channel doping, the sub-fin and substrate `doping.subfin_cm3`. For the
+//!   natural length, [`bulk_fin_eigen_section`] grounds the silicon below the
+//!   sub-fin's depletion depth (the neutral, screened part).
 //!
 //! Device width (needed for a threshold current I_cc W/L): W is per fin (or
 //! wire) and equals the gated silicon perimeter: tri-gate 2 H + W_fin,
@@ -33,11 +41,12 @@
 //! these keys have no effect outside thin-body; they only act through the
 //! buried oxide here.
 
-use super::{lookup, BACK_PLANE, FINE_INTERFACE_NM, FINE_OTHER_NM, GATE};
+use super::planar::step_tail_avg;
+use super::{lookup, BACK_PLANE, FINE_INTERFACE_NM, FINE_OTHER_NM, GATE, SUBSTRATE};
 use crate::device::{Architecture, Scenario};
 use crate::discretize::{CellKind, Problem};
 use crate::mesh::graded_line;
-use crate::physics::Silicon;
+use crate::physics::{Silicon, EPS_SIO2};
 
 /// Thickness of the metal slab that closes the domain (gate top, back plane), nm.
 pub const METAL_SLAB_NM: f64 = 1.0;
@@ -45,7 +54,7 @@ pub const METAL_SLAB_NM: f64 = 1.0;
 /// How gatehold defines the width W of a fin or wire device (stated in every output).
 pub const WIDTH_DEFINITION: &str =
     "per fin: W = gated silicon perimeter (tri-gate 2 H_fin + W_fin, \
-     gate-all-around 2 (H + W), capped fin 2 H_fin)";
+     gate-all-around 2 (H + W), capped fin 2 H_fin, bulk fin 2 H_fin + W_fin)";
 
 /// What a cell of the cross-section is made of, by role.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, PartialOrd, Ord, serde::Serialize)]
@@ -55,6 +64,8 @@ pub enum Region {
     BuriedOxide,
     Cap,
     Metal,
+    /// Bulk fin: the isolation oxide beside the sub-fin.
+    Isolation,
 }
 
 impl Region {
@@ -66,6 +77,7 @@ impl Region {
             Region::BuriedOxide => "buried oxide",
             Region::Cap => "fin cap",
             Region::Metal => "metal",
+            Region::Isolation => "isolation oxide",
         }
     }
 }
@@ -97,8 +109,29 @@ pub struct CrossSection {
     pub side_centre_node: usize,
 }
 
-/// Builds the cross-section of a tri-gate, gate-all-around or capped-fin scenario.
+/// Builds the cross-section of a tri-gate, gate-all-around, capped-fin or bulk-fin scenario.
 pub fn cross_section(s: &Scenario) -> Result<CrossSection, CrossSectionError> {
+    build(s, None)
+}
+
+/// The cross-section of a bulk fin for its natural length: the silicon
+/// deeper than `grounded_depth_nm` below the gated fin's bottom (the
+/// sub-fin's depletion depth) is a grounded electrode, as a planar bulk
+/// stack is grounded at its depletion depth; clamped to the substrate bottom.
+/// Other architectures: [`cross_section`].
+pub fn bulk_fin_eigen_section(
+    s: &Scenario,
+    grounded_depth_nm: f64,
+) -> Result<CrossSection, CrossSectionError> {
+    if s.architecture != Architecture::BulkFin {
+        return cross_section(s);
+    }
+    let g = &s.geometry;
+    let below = g.isolation_depth_nm + g.substrate_depth_nm;
+    build(s, (grounded_depth_nm < below).then_some(grounded_depth_nm))
+}
+
+fn build(s: &Scenario, grounded_depth_nm: Option<f64>) -> Result<CrossSection, CrossSectionError> {
     let arch = s.architecture;
     if !arch.is_fin() {
         return Err(CrossSectionError::NotAFin(arch));
@@ -110,6 +143,9 @@ pub fn cross_section(s: &Scenario) -> Result<CrossSection, CrossSectionError> {
     let t = s.stack_thickness_nm();
     let gaa = arch == Architecture::GateAllAround;
     let capped = arch == Architecture::CappedFin;
+    let bulk = arch == Architecture::BulkFin;
+    let (iso, sub) = (g.isolation_depth_nm, g.substrate_depth_nm);
+    let nsub = s.doping.subfin_per_nm3;
     let tc = if capped { g.cap_thickness_nm } else { 0.0 };
     let core_top = -tc;
     let tbox = g.box_thickness_nm;
@@ -160,6 +196,13 @@ pub fn cross_section(s: &Scenario) -> Result<CrossSection, CrossSectionError> {
         }
         yh.push(h + t + METAL_SLAB_NM);
         yf.push((h + t, FINE_OTHER_NM));
+    } else if bulk {
+        yh.push(h + iso);
+        yh.push(h + iso + sub);
+        yf.push((h + iso, FINE_INTERFACE_NM));
+        if let Some(d) = grounded_depth_nm {
+            yh.push(h + d);
+        }
     } else {
         yh.push(h + tbox);
         yh.push(h + tbox + METAL_SLAB_NM);
@@ -174,6 +217,17 @@ pub fn cross_section(s: &Scenario) -> Result<CrossSection, CrossSectionError> {
             .map(|(l, _)| l.eps_r)
     };
     let region_at = |xc: f64, yc: f64| -> (Region, CellKind) {
+        if bulk && yc > h {
+            if grounded_depth_nm.is_some_and(|d| yc > h + d) && (xc.abs() < half || yc > h + iso)
+            {
+                return (Region::Metal, CellKind::Metal(BACK_PLANE));
+            }
+            return if xc.abs() < half || yc > h + iso {
+                (Region::Silicon, CellKind::Semi)
+            } else {
+                (Region::Isolation, CellKind::Dielectric(EPS_SIO2))
+            };
+        }
         if !gaa && yc > h {
             return if yc < h + tbox {
                 (Region::BuriedOxide, CellKind::Dielectric(g.box_eps))
@@ -198,14 +252,24 @@ pub fn cross_section(s: &Scenario) -> Result<CrossSection, CrossSectionError> {
         }
     };
     let silicon = Silicon::at(s.temperature_k);
-    let net = -s.polarity.sign() * s.doping.channel_per_nm3;
+    let sign = s.polarity.sign();
+    let nch = s.doping.channel_per_nm3;
+    let ny = y.len();
     let problem = Problem::new(
         x,
         y,
         silicon,
         |xc, yc| region_at(xc, yc).1,
-        |_, _| None,
-        |_, _, _, _| net,
+        // Bulk fin: the substrate contact on the bottom face.
+        |_, j| (bulk && j == ny - 1).then_some(SUBSTRATE),
+        |_, _, y0, y1| {
+            if bulk {
+                let above = step_tail_avg(y0, y1, h, 0.0);
+                -sign * (nch * above + nsub * (1.0 - above))
+            } else {
+                -sign * nch
+            }
+        },
     );
     let mut regions = Vec::with_capacity(problem.cells.len());
     for cy in 0..problem.ny - 1 {

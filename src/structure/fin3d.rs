@@ -5,7 +5,10 @@
 //! contact (2 S + L_g); y across the fin, centred on it (fin from -W/2 to
 //! W/2); z downward from the top silicon surface (fin from 0 to H), nm.
 //! Electrode [`GATE`] is the gate, [`BACK_PLANE`] the plane under the buried
-//! oxide; contacts [`SOURCE`] and [`DRAIN`] are the fin's silicon end faces.
+//! oxide; contacts [`SOURCE`] and [`DRAIN`] are the fin's silicon end faces
+//! (z <= H), and for a bulk fin [`SUBSTRATE`] is the bottom face of its
+//! substrate silicon (held at 0 V and charge neutrality, as the planar bulk
+//! device's substrate contact).
 //!
 //! The structure is mirror-symmetric about y = 0: [`along_fin`] meshes the
 //! half y >= 0 (the plane y = 0 is its first y line, zero normal field) and
@@ -19,12 +22,12 @@
 //! [`FIN3D_FINE_JUNCTION`] times `mesh.max_step_nm`, growth [`FIN3D_GROWTH`], the largest step
 //! [`FIN3D_STEP_FACTOR`] times `mesh.max_step_nm`), all divided by `mesh.refinement`. docs/fins-3d.md gives the choices.
 
-use super::planar::DopingProfile;
-use super::{lookup, AlongChannel, BACK_PLANE, DRAIN, GATE, SOURCE};
+use super::planar::{step_tail_avg, DopingProfile};
+use super::{lookup, AlongChannel, BACK_PLANE, DRAIN, GATE, SOURCE, SUBSTRATE};
 use crate::device::{Architecture, Scenario};
 use crate::discretize::{CellKind, Problem};
 use crate::mesh::{graded_line_with_growth, Line};
-use crate::physics::Silicon;
+use crate::physics::{Silicon, EPS_SIO2};
 
 /// Finest step at a silicon/dielectric interface of a 3D fin, in units of
 /// `mesh.max_step_nm` (0.3 nm at the default 0.5 nm; coarser than the 2D
@@ -54,6 +57,9 @@ struct Geometry3d {
     z_top: f64,
     gate: (f64, f64),
     total_x: f64,
+    /// Bulk fin: isolation oxide depth and substrate depth below it, else 0.
+    iso: f64,
+    sub: f64,
 }
 
 impl Geometry3d {
@@ -95,7 +101,21 @@ impl Geometry3d {
             z_top: -(tc + t + g.gate_height_nm),
             gate: (sd, sd + l),
             total_x: 2.0 * sd + l,
+            iso: if arch == Architecture::BulkFin {
+                g.isolation_depth_nm
+            } else {
+                0.0
+            },
+            sub: if arch == Architecture::BulkFin {
+                g.substrate_depth_nm
+            } else {
+                0.0
+            },
         }
+    }
+
+    fn bulk_fin(&self) -> bool {
+        self.arch == Architecture::BulkFin
     }
 
     fn gaa(&self) -> bool {
@@ -106,6 +126,8 @@ impl Geometry3d {
     fn z_bottom(&self, s: &Scenario) -> f64 {
         if self.gaa() {
             self.h + self.t + self.gate_height
+        } else if self.bulk_fin() {
+            self.h + self.iso + self.sub
         } else {
             self.h + s.geometry.box_thickness_nm + BACK_PLANE_SLAB_NM
         }
@@ -114,6 +136,15 @@ impl Geometry3d {
     /// Material at (x, y, z) (a cell centre).
     fn material(&self, s: &Scenario, x: f64, y: f64, z: f64) -> CellKind {
         let g = &s.geometry;
+        if self.bulk_fin() && z > self.h {
+            // Below the gated fin: the sub-fin (as wide as the fin) through
+            // the isolation oxide, then substrate silicon over the whole width.
+            return if y.abs() < self.half_w || z > self.h + self.iso {
+                CellKind::Semi
+            } else {
+                CellKind::Dielectric(EPS_SIO2)
+            };
+        }
         if !self.gaa() && z > self.h {
             return if z < self.h + g.box_thickness_nm {
                 CellKind::Dielectric(g.box_eps)
@@ -200,6 +231,10 @@ fn z_line(s: &Scenario, geo: &Geometry3d, max_step: f64) -> Line {
             hard.push(geo.h + c);
         }
         fine.push((geo.h + geo.t, fj));
+    } else if geo.bulk_fin() {
+        // The isolation bottom (substrate top) is a silicon/dielectric interface.
+        hard.push(geo.h + geo.iso);
+        fine.push((geo.h + geo.iso, fi));
     } else {
         hard.push(geo.h + s.geometry.box_thickness_nm);
     }
@@ -217,6 +252,17 @@ pub fn fin_width_nm(s: &Scenario) -> f64 {
         Architecture::CappedFin => 2.0 * h,
         _ => 2.0 * h + w,
     }
+}
+
+/// Net doping of a bulk fin averaged over the box part [x0, x1] x [z0, z1],
+/// nm^-3 (positive: n-type): the source/drain profile is uniform over the
+/// gated fin and stops at z = H (`doping.well_depth`), graded below it as
+/// along x; the channel dopants fill the gated fin (z <= H) and the sub-fin
+/// dopants (`doping.subfin_cm3`) the sub-fin and substrate below.
+fn bulk_fin_net_avg(d: &DopingProfile, subfin: f64, h: f64, x: (f64, f64), z: (f64, f64)) -> f64 {
+    let above = step_tail_avg(z.0, z.1, h, 0.0);
+    let dopants = d.nch * above + subfin * (1.0 - above);
+    d.polarity.sign() * (d.sd_avg(x.0, x.1, z.0, z.1) - dopants)
 }
 
 /// Finest steps (interface, junction) of the 3D mesh before refinement, nm.
@@ -252,7 +298,13 @@ fn build(s: &Scenario, half: bool) -> AlongChannel {
         "along_fin needs a fin or wire architecture"
     );
     let geo = Geometry3d::of(s);
-    let doping = DopingProfile::of(s);
+    let mut doping = DopingProfile::of(s);
+    if geo.bulk_fin() {
+        // The source/drain profile stops at the gated fin's bottom plane.
+        doping.well_depth = Some(geo.h);
+    }
+    let bulk_fin = geo.bulk_fin();
+    let subfin = s.doping.subfin_per_nm3;
     let max_step = fin3d_max_step_nm(s);
     let x = x_line(s, &geo, &doping, max_step);
     let yh = y_half_line(s, &geo, max_step);
@@ -265,6 +317,7 @@ fn build(s: &Scenario, half: bool) -> AlongChannel {
     };
     let z = z_line(s, &geo, max_step);
     let nx = x.len();
+    let nz = z.len();
     let zs = z.nodes.clone();
     let h = geo.h;
     let mut problem = Problem::new_3d(
@@ -274,8 +327,11 @@ fn build(s: &Scenario, half: bool) -> AlongChannel {
         Silicon::at(s.temperature_k),
         |xc, yc, zc| geo.material(s, xc, yc, zc),
         |i, _, k| {
-            // Ohmic contacts: the fin's silicon end faces (edge nodes included).
-            if zs[k] > h + 1e-9 {
+            // Ohmic contacts: the fin's silicon end faces (edge nodes
+            // included); a bulk fin's substrate contact is its bottom face.
+            if bulk_fin && k == nz - 1 {
+                Some(SUBSTRATE)
+            } else if zs[k] > h + 1e-9 {
                 None
             } else if i == 0 {
                 Some(SOURCE)
@@ -285,7 +341,13 @@ fn build(s: &Scenario, half: bool) -> AlongChannel {
                 None
             }
         },
-        |x0, x1, _, _, _, _| doping.net_avg(x0, x1, 0.0, 0.0),
+        |x0, x1, _, _, z0, z1| {
+            if bulk_fin {
+                bulk_fin_net_avg(&doping, subfin, h, (x0, x1), (z0, z1))
+            } else {
+                doping.net_avg(x0, x1, 0.0, 0.0)
+            }
+        },
     );
     if half {
         problem.symmetry_factor = 2.0;
@@ -295,7 +357,7 @@ fn build(s: &Scenario, half: bool) -> AlongChannel {
         problem,
         gate_start_nm: geo.gate.0,
         gate_end_nm: geo.gate.1,
-        silicon_bottom_nm: h,
+        silicon_bottom_nm: if bulk_fin { geo.z_bottom(s) } else { h },
         doping,
         mirror_plane_nm: None,
         plugs: None,
@@ -318,6 +380,7 @@ mod tests {
             Architecture::TriGate,
             Architecture::GateAllAround,
             Architecture::CappedFin,
+            Architecture::BulkFin,
         ] {
             let s = crate::device::parse_device(&crate::device::template::template(arch)).unwrap();
             let (est, _) = crate::device::estimate_nodes_3d(&s);
@@ -393,5 +456,68 @@ mod tests {
         let ring = (10.0 * 22.0 - 8.0 * 20.0) / 2.0 * 20.0;
         let stack = volume(p, |c| c == CellKind::Dielectric(3.9));
         assert!((stack - ring).abs() < 1e-6, "stack {stack} vs {ring}");
+    }
+
+    #[test]
+    fn bulk_fin_volumes_contacts_and_doping_follow_the_contract() {
+        // 8 nm fin, 20 nm tall, 1 nm SiO2, default pitch 8 + 2 + 20 = 30 nm
+        // (half 15 nm); isolation 6 nm, substrate 4 nm; L = 20, S = 10.
+        let s = parse_device(
+            "name = \"f\"\narchitecture = \"bulk-fin\"\n[geometry]\ngate_length_nm = 20\nbody_thickness_nm = 8\n\
+             fin_height_nm = 20\nisolation_depth_nm = 6\nsubstrate_depth_nm = 4\nsource_drain_length_nm = 10\n\
+             [[gate_stack]]\nmaterial = \"SiO2\"\nthickness_nm = 1.0\n[gate]\nworkfunction_eV = 4.6\n\
+             [doping]\nchannel_cm3 = 1e16\nsubfin_cm3 = 2e18\n[mesh]\nmax_step_nm = 1.0\n",
+        )
+        .unwrap();
+        let p = &along_fin(&s).problem;
+        let len = 40.0;
+        // Silicon: half fin (4 x 20) + half sub-fin (4 x 6) + half substrate (15 x 4), all along L.
+        let si = volume(p, |c| c == CellKind::Semi);
+        let want = (4.0 * 20.0 + 4.0 * 6.0 + 15.0 * 4.0) * len;
+        assert!((si - want).abs() < 1e-6, "silicon {si} vs {want}");
+        // Isolation oxide beside the sub-fin over the whole length, plus the
+        // gate stack (SiO2 too) under the gate only.
+        let ox = volume(p, |c| c == CellKind::Dielectric(3.9));
+        let want_ox = 11.0 * 6.0 * len + (4.0 + 20.0 + 1.0) * 20.0;
+        assert!((ox - want_ox).abs() < 1e-6, "oxide {ox} vs {want_ox}");
+        // No metal below the isolation top; no back plane.
+        let (hx, hy, hz) = (p.x.steps(), p.y.steps(), p.z.steps());
+        for cz in 0..hz.len() {
+            for cy in 0..hy.len() {
+                for cx in 0..hx.len() {
+                    let zc = 0.5 * (p.z.nodes[cz] + p.z.nodes[cz + 1]);
+                    if zc > 20.0 {
+                        assert!(!matches!(p.cell_3d(cx, cy, cz), CellKind::Metal(_)));
+                    }
+                }
+            }
+        }
+        let bottom = *p.z.nodes.last().unwrap();
+        assert!((bottom - 30.0).abs() < 1e-9);
+        for (n, kind) in p.nodes.iter().enumerate() {
+            let (x, y, z) = p.coords_nm(n);
+            match kind {
+                NodeKind::Contact(c) if *c == SUBSTRATE => assert!((z - bottom).abs() < 1e-9),
+                NodeKind::Contact(_) => {
+                    assert!(x == 0.0 || x == len);
+                    assert!(y <= 4.0 + 1e-9 && (0.0..=20.0 + 1e-9).contains(&z));
+                }
+                _ => assert!((z - bottom).abs() > 1e-9 || p.semi_area[n] == 0.0),
+            }
+        }
+        // Doping: source/drain donors over the gated fin only; sub-fin acceptors below.
+        let nearest = |l: &Line, v: f64| {
+            (0..l.len())
+                .min_by(|&a, &b| (l.nodes[a] - v).abs().total_cmp(&(l.nodes[b] - v).abs()))
+                .unwrap()
+        };
+        let ni = |x: f64, z: f64| {
+            let (i, k) = (nearest(&p.x, x), nearest(&p.z, z));
+            p.net_doping[i + p.nx * p.ny * k]
+        };
+        assert!((ni(1.0, 10.0) - (1e20 - 1e16) * 1e-21).abs() < 1e-9);
+        assert!((ni(20.0, 10.0) + 1e16 * 1e-21).abs() < 1e-12);
+        assert!((ni(1.0, 24.0) + 2e18 * 1e-21).abs() < 1e-12);
+        assert!((ni(20.0, 24.0) + 2e18 * 1e-21).abs() < 1e-12);
     }
 }

@@ -663,10 +663,34 @@ pub fn lambda_report(
             notes,
         ))
     } else {
-        let cs = cross_section(s)?;
+        let cs = eigen_section(s)?;
         let sl = section_natural_lengths(&cs)?;
         Ok(section_report(s, &cs, &sl))
     }
+}
+
+/// Depth below a bulk fin's gated fin beyond which its sub-fin and substrate
+/// are taken as grounded for the natural length, nm: the maximum depletion
+/// width at `doping.subfin_cm3` ([`cf::max_depletion_width_nm`], common
+/// practice, as the planar bulk stack's grounded plane); None for an undoped
+/// sub-fin (then only the substrate contact grounds it) or another architecture.
+pub fn bulk_fin_grounded_depth_nm(s: &Scenario) -> Option<f64> {
+    if s.architecture != Architecture::BulkFin {
+        return None;
+    }
+    let si = crate::physics::Silicon::at(s.temperature_k);
+    cf::max_depletion_width_nm(&si, s.doping.subfin_per_nm3)
+}
+
+/// The cross-section whose modes give a fin's natural length: the Poisson
+/// cross-section ([`cross_section`]), except that a bulk fin's silicon
+/// deeper than [`bulk_fin_grounded_depth_nm`] below the gated fin is a
+/// grounded electrode ([`crate::structure::fin::bulk_fin_eigen_section`]).
+pub fn eigen_section(s: &Scenario) -> Result<CrossSection, TheoryError> {
+    Ok(match bulk_fin_grounded_depth_nm(s) {
+        Some(d) => crate::structure::fin::bulk_fin_eigen_section(s, d)?,
+        None => cross_section(s)?,
+    })
 }
 
 /// The report of a fin or wire cross-section whose modes are already computed.
@@ -688,9 +712,21 @@ pub fn section_report(s: &Scenario, cs: &CrossSection, sl: &SectionLambda) -> La
         None,
         modes,
         cs.problem.node_count(),
-        vec![format!(
-            "fin/wire width convention elsewhere: {WIDTH_DEFINITION}"
-        )],
+        {
+            let mut notes = vec![format!(
+                "fin/wire width convention elsewhere: {WIDTH_DEFINITION}"
+            )];
+            if s.architecture == Architecture::BulkFin {
+                notes.push(match bulk_fin_grounded_depth_nm(s) {
+                    Some(d) => format!(
+                        "bulk fin: sub-fin and substrate grounded below {d:.1} nm under the gated fin \
+                         (maximum depletion width at doping.subfin_cm3; clamped to the substrate contact)"
+                    ),
+                    None => "bulk fin: undoped sub-fin, grounded only by the substrate contact".into(),
+                });
+            }
+            notes
+        },
     )
 }
 
