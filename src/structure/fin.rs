@@ -218,8 +218,7 @@ fn build(s: &Scenario, grounded_depth_nm: Option<f64>) -> Result<CrossSection, C
     };
     let region_at = |xc: f64, yc: f64| -> (Region, CellKind) {
         if bulk && yc > h {
-            if grounded_depth_nm.is_some_and(|d| yc > h + d) && (xc.abs() < half || yc > h + iso)
-            {
+            if grounded_depth_nm.is_some_and(|d| yc > h + d) && (xc.abs() < half || yc > h + iso) {
                 return (Region::Metal, CellKind::Metal(BACK_PLANE));
             }
             return if xc.abs() < half || yc > h + iso {
