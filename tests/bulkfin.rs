@@ -9,7 +9,11 @@
 use std::path::Path;
 use std::process::Command;
 
-use gatehold::device::parse_device;
+use gatehold::device::{parse_device, Polarity, Scenario};
+use gatehold::physics::Silicon;
+use gatehold::progress::Silent;
+use gatehold::solve::{DeviceSolver, PoissonSolver};
+use gatehold::structure::{along_fin, along_fin_full};
 
 const BIN: &str = env!("CARGO_BIN_EXE_gatehold");
 
@@ -303,4 +307,155 @@ fn new_keys_are_refused_naming_key_value_and_why() {
         err.contains("geometry.box_thickness_nm has no effect for architecture bulk-fin"),
         "{err}"
     );
+}
+
+/// A small bulk fin for the library-level checks (coarse mesh).
+fn small_bulk_fin(max_step_nm: f64) -> Scenario {
+    parse_device(&format!(
+        r#"name = "small-bulk-fin"
+architecture = "bulk-fin"
+[geometry]
+gate_length_nm = 14
+body_thickness_nm = 6
+fin_height_nm = 10
+fin_pitch_nm = 16
+isolation_depth_nm = 8
+substrate_depth_nm = 6
+source_drain_length_nm = 8
+gate_height_nm = 5
+[[gate_stack]]
+material = "SiO2"
+thickness_nm = 1.0
+[gate]
+workfunction_eV = 4.6
+[doping]
+channel_cm3 = 1e15
+subfin_cm3 = 2e18
+[bias]
+vgs_start_V = -0.3
+vgs_stop_V = 0.7
+vgs_step_V = 0.05
+[mesh]
+max_step_nm = {max_step_nm}
+"#
+    ))
+    .unwrap()
+}
+
+/// Tight tolerances so that two solves of the same problem agree far below the default 1e-6 V_T.
+fn tight(solver: &mut DeviceSolver) {
+    solver.opts.update_tol_v = 1e-12;
+    solver.opts.residual_tol_v = 1e-12;
+}
+
+#[test]
+fn half_and_full_bulk_fin_domains_agree() {
+    // Mirror symmetry about y = 0 (DEVICE-FORMAT.md, "Fins and wires solved
+    // in 3D"): the half domain with a zero-field symmetry plane equals the
+    // full one, sub-fin, isolation and substrate contact included.
+    let s = small_bulk_fin(1.5);
+    let half = along_fin(&s);
+    let full = along_fin_full(&s);
+    let (ph, pf) = (&half.problem, &full.problem);
+    assert_eq!(pf.ny, 2 * ph.ny - 1);
+    let mut dh = DeviceSolver::new(&s, &half, PoissonSolver::new(ph).unwrap());
+    let mut df = DeviceSolver::new(&s, &full, PoissonSolver::new(pf).unwrap());
+    tight(&mut dh);
+    tight(&mut df);
+    let psi_h = dh.initial_state(0.2, 0.0).unwrap();
+    let psi_f = df.initial_state(0.2, 0.0).unwrap();
+    let off = ph.ny - 1;
+    let mut worst: f64 = 0.0;
+    for k in 0..ph.nz {
+        for j in 0..ph.ny {
+            for i in 0..ph.nx {
+                let a = psi_h[ph.index(i, j, k)];
+                let b = psi_f[pf.index(i, off + j, k)];
+                let c = psi_f[pf.index(i, off - j, k)];
+                worst = worst.max((a - b).abs()).max((a - c).abs());
+            }
+        }
+    }
+    println!("bulk-fin: largest |psi_half - psi_full| = {worst:.3e} V");
+    assert!(worst < 1e-9, "{worst}");
+}
+
+#[test]
+fn p_channel_bulk_fin_is_the_mirror_image() {
+    // MODEL.md section 3: a p-channel device is the mirror image of the
+    // n-channel one (donors, work function mirrored about midgap, biases
+    // negated); the substrate contact mirrors with the sub-fin doping.
+    let n = small_bulk_fin(1.5);
+    let mut p = n.clone();
+    p.polarity = Polarity::P;
+    let phi_i = Silicon::at(n.temperature_k).phi_i_ev;
+    p.gate.workfunction_ev = 2.0 * phi_i - n.gate.workfunction_ev;
+    let (sn, sp) = (along_fin(&n), along_fin(&p));
+    let mut dn = DeviceSolver::new(&n, &sn, PoissonSolver::new(&sn.problem).unwrap());
+    let mut dp = DeviceSolver::new(&p, &sp, PoissonSolver::new(&sp.problem).unwrap());
+    let psi_n = dn.initial_state(0.2, 0.5).unwrap();
+    let psi_p = dp.initial_state(-0.2, -0.5).unwrap();
+    let worst = psi_n
+        .iter()
+        .zip(&psi_p)
+        .map(|(a, b)| (a + b).abs())
+        .fold(0.0, f64::max);
+    println!("bulk-fin: largest |psi_n + psi_p| = {worst:.3e} V");
+    assert!(worst < 1e-9, "{worst}");
+}
+
+/// The report of `s` at gate length `l_nm` (3D solve, its own reference).
+fn solve_at(s: &Scenario, l_nm: f64) -> gatehold::evaluate::DeviceReport {
+    let sc = s.with_gate_length(l_nm).unwrap();
+    let ev = gatehold::evaluate::evaluate_alone(&sc, &Silent).unwrap();
+    assert_eq!(ev.report.method, gatehold::evaluate::Method::ThreeDSolve);
+    ev.report
+}
+
+#[test]
+#[ignore = "a few minutes: cargo test --release --test bulkfin -- --ignored long_bulk_fin"]
+fn long_bulk_fin_approaches_the_cross_section_pao_sah_threshold() {
+    // Pao and Sah, Solid-State Electronics 9, 927, 1966: a long channel's
+    // threshold is the cross-section's uniform-channel V_t,long (here with
+    // the sub-fin, substrate and its contact); the 3D solve approaches it.
+    let s = small_bulk_fin(1.0);
+    for l in [300.0, 600.0] {
+        let r = solve_at(&s, l);
+        let gap = 1000.0 * (r.vt_lin_v.unwrap() - r.vt_long_v.unwrap());
+        println!(
+            "L = {l} nm: V_t,lin {:?} V, V_t,long {:?} V, gap {gap:.4} mV ({} nodes)",
+            r.vt_lin_v, r.vt_long_v, r.nodes
+        );
+        assert!(gap.abs() < 2.0, "L = {l} nm: gap {gap} mV");
+    }
+}
+
+#[test]
+#[ignore = "several minutes: cargo test --release --test bulkfin -- --ignored bulk_fin_mesh"]
+fn bulk_fin_mesh_is_converged() {
+    // Common practice (mesh refinement study): V_t within 1 mV and DIBL
+    // within 3 % of a mesh twice as fine (mesh.refinement = 2).
+    let mut s = small_bulk_fin(0.5);
+    s.bias.vgs_step_v = 0.025;
+    let a = solve_at(&s, 20.0);
+    let mut fine = s.clone();
+    fine.mesh.refinement = 2.0;
+    let b = solve_at(&fine, 20.0);
+    for r in [&a, &b] {
+        assert!(r.problems.is_empty(), "{:?}", r.problems);
+    }
+    let dvt = 1000.0 * (a.vt_lin_v.unwrap() - b.vt_lin_v.unwrap());
+    let ddibl = a.dibl_mv_per_v.unwrap() / b.dibl_mv_per_v.unwrap() - 1.0;
+    println!(
+        "bulk-fin: V_t {:.5} vs {:.5} V ({dvt:.3} mV), DIBL {:.2} vs {:.2} mV/V ({:.2} %), nodes {} vs {}",
+        a.vt_lin_v.unwrap(),
+        b.vt_lin_v.unwrap(),
+        a.dibl_mv_per_v.unwrap(),
+        b.dibl_mv_per_v.unwrap(),
+        100.0 * ddibl,
+        a.nodes,
+        b.nodes
+    );
+    assert!(dvt.abs() < 1.0, "{dvt} mV");
+    assert!(ddibl.abs() < 0.03, "{ddibl}");
 }

@@ -41,6 +41,10 @@ fn note(key: &str) -> Option<String> {
             "a dielectric name ({dielectrics}); give it or `relative_permittivity`, not both"
         ),
         "doping.channel_cm3" => "0 (undoped) or 1e10 to 5e20 cm^-3".into(),
+        "doping.subfin_cm3" => "bulk-fin: dopants of the sub-fin and substrate (the punch-through \
+             stopper, the channel's type), 0 (undoped) or 1e10 to 5e20 cm^-3; default: \
+             doping.channel_cm3"
+            .into(),
         "doping.junction_offset_nm" => {
             "nm; positive: the junctions reach under the gate (overlap), negative: underlap; \
              less than half the gate length and an underlap shorter than the source/drain silicon"
