@@ -720,7 +720,9 @@ pub fn section_report(s: &Scenario, cs: &CrossSection, sl: &SectionLambda) -> La
                 notes.push(match bulk_fin_grounded_depth_nm(s) {
                     Some(d) => format!(
                         "bulk fin: sub-fin and substrate grounded below {d:.1} nm under the gated fin \
-                         (maximum depletion width at doping.subfin_cm3; clamped to the substrate contact)"
+                         (maximum depletion width at doping.subfin_cm3; clamped to the substrate contact); \
+                         the source/drain stops at the fin bottom, so short-channel theory from this \
+                         lambda reads pessimistic: prefer the 3D solve (docs/fins-3d.md)"
                     ),
                     None => "bulk fin: undoped sub-fin, grounded only by the substrate contact".into(),
                 });
