@@ -452,6 +452,60 @@ fn two_term_fit_recovers_a_known_lambda() {
 }
 
 #[test]
+fn rolloff_split_of_a_fin_compares_densities_per_width() {
+    // The roll-off split of docs/electrical-length.md (its derivation in
+    // extract::electrical_length::split_rolloff): the barrier-top column
+    // density is compared with the long channel's threshold density per nm of
+    // width, so a 3D fin's cross-section integral is divided by its width W
+    // (before that, every fin's electrostatic part was off by SS_long log10 W,
+    // about -86 mV for this 26 nm wide tri-gate, and the rest by +86 mV).
+    // Checks: the parts sum to the total up to the derived rest (as
+    // tests/answer.rs holds for a planar section, 0.5 mV); at a long fin both
+    // the electrostatic part and the rest are small (the channel charge at
+    // V_t, SS_long log10(L_elec(V_t)/L_elec), is about 1-2 mV whatever the
+    // length); at a short fin the electrostatic part is tens of mV with the
+    // roll-off's sign (Liu et al., IEEE TED 40(1), 86, 1993: the barrier falls
+    // as exp(-L/(2 lambda))).
+    let mut s = small_fin("tri-gate");
+    s.bias.vgs_step_v = 0.0125;
+    let mut parts = Vec::new();
+    for l in [14.0, 200.0] {
+        let r = solve_at(&s, l);
+        assert!(r.problems.is_empty(), "L = {l}: {:?}", r.problems);
+        let (total, es, len, rest) = (
+            r.vt_rolloff_mv.unwrap(),
+            r.vt_rolloff_electrostatic_mv.unwrap(),
+            r.vt_rolloff_length_mv.unwrap(),
+            r.vt_rolloff_residual_mv.unwrap(),
+        );
+        let (ss_long, ss_lin) = (r.ss_long_mv_per_dec.unwrap(), r.ss_lin_mv_per_dec.unwrap());
+        let (le, le_vt) = (r.l_elec_nm.unwrap(), r.l_elec_at_vt_nm.unwrap());
+        let predicted = (ss_long - ss_lin) * (le / l).log10() + ss_long * (le_vt / le).log10();
+        println!(
+            "L = {l} nm: roll-off {total:.2} mV = electrostatic {es:.2} + electrical length {len:.2} + rest {rest:.2} \
+             (derived rest {predicted:.2}); L_elec {le:.2} nm, at V_t {le_vt:.2} nm; {} nodes",
+            r.nodes
+        );
+        // The V_t interpolation between bias points is the remainder: 0.55 and
+        // 0.94 mV at vgs_step_V = 0.05, 0.04 and 0.07 mV at 0.0125 (measured).
+        assert!(
+            (rest - predicted).abs() < 0.5,
+            "L = {l}: rest {rest} mV vs derived {predicted} mV"
+        );
+        parts.push((total, es, rest));
+    }
+    let (short, long) = (parts[0], parts[1]);
+    // Measured (max_step_nm = 1): 200 nm: -2.62 = +1.20 - 2.35 - 1.47 mV;
+    // 14 nm: -56.4 = -35.1 - 34.3 + 13.1 mV.
+    assert!(
+        long.1.abs() < 3.0 && long.2.abs() < 3.0,
+        "long fin: {long:?}"
+    );
+    assert!(short.0 < -20.0 && short.1 < -20.0, "short fin: {short:?}");
+    assert!(short.1.abs() > 10.0 * long.1.abs(), "{short:?} vs {long:?}");
+}
+
+#[test]
 #[ignore = "about a minute: cargo test --release --test fins3d -- --ignored long_tri_gate"]
 fn long_tri_gate_approaches_the_cross_section_pao_sah_threshold() {
     // Pao and Sah, Solid-State Electronics 9, 927, 1966: a long channel's
