@@ -32,7 +32,9 @@ pub const L_ELEC_WARN_NM: f64 = 3.0;
 pub struct ElectricalLength {
     /// N_top * int dx / N, nm.
     pub l_elec_nm: f64,
-    /// Barrier-top column density, nm^-2.
+    /// Barrier-top column density per nm of width, nm^-2 (a 3D problem's
+    /// cross-section integral divided by its current width W, so that it
+    /// compares with [`threshold_density_per_nm2`] as a 2D section's does).
     pub n_top_per_nm2: f64,
     /// Where the barrier top lies along x, nm.
     pub x_top_nm: f64,
@@ -52,7 +54,7 @@ pub fn electrical_length(p: &Problem, psi: &[f64], polarity: Polarity) -> Electr
         .expect("a mesh has columns");
     ElectricalLength {
         l_elec_nm: n_top * total,
-        n_top_per_nm2: n_top,
+        n_top_per_nm2: n_top / p.current_width_nm,
         x_top_nm: p.x.nodes[i_top],
         resistance_nm3: total,
     }

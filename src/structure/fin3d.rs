@@ -179,13 +179,17 @@ impl Geometry3d {
 }
 
 /// Mesh lines along the channel: the planar device's hard points (contacts,
-/// gate edges, junctions), refined at the gate edges and junctions.
+/// gate edges, junctions), refined at the gate edges and junctions, and at
+/// the gate centre, where the barrier top of a short device lies (the barrier
+/// is a nodal maximum: coarse steps there cannot follow its top moving with
+/// the drain bias, docs/fins-3d.md "Verification").
 fn x_line(s: &Scenario, geo: &Geometry3d, doping: &DopingProfile, max_step: f64) -> Line {
     let r = s.mesh.refinement;
     let (g0, g1) = geo.gate;
     let fj = FIN3D_FINE_JUNCTION * s.mesh.max_step_nm;
-    let mut hard = vec![0.0, g0, g1, geo.total_x];
-    let mut fine = vec![(g0, fj), (g1, fj)];
+    let mid = 0.5 * (g0 + g1);
+    let mut hard = vec![0.0, g0, mid, g1, geo.total_x];
+    let mut fine = vec![(g0, fj), (mid, fj), (g1, fj)];
     for e in [doping.source_edge, doping.drain_edge] {
         if e > 1e-6 && e < geo.total_x - 1e-6 {
             hard.push(e);
