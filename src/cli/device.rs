@@ -53,13 +53,21 @@ pub fn run(
                     eprintln!("wrote {}", p.display());
                 }
             }
-            None if ev.solution_3d.is_some() => eprintln!(
-                "no plots: the 3D fin figures (cross-section at the barrier, slice along the leakiest line) are not drawn yet"
-            ),
-            None => eprintln!(
-                "no plots: {} devices evaluated by theory alone (--fins theory) are not solved along the channel",
-                s.architecture
-            ),
+            None => match &ev.solution_3d {
+                Some(sol) => {
+                    let out = gatehold::plot::fin_plots(sol, dir, "")?;
+                    for p in &out.files {
+                        eprintln!("wrote {}", p.display());
+                    }
+                    for n in &out.notes {
+                        eprintln!("note: {}", n.reason);
+                    }
+                }
+                None => eprintln!(
+                    "no plots: {} devices evaluated by theory alone (--fins theory) are not solved along the channel",
+                    s.architecture
+                ),
+            },
         }
     }
     Ok(Exit::missing_if(!r.problems.is_empty()))
