@@ -392,3 +392,42 @@ fn run_writes_the_fin_figures() {
     }
     assert!(!err.contains("not drawn yet"), "{err}");
 }
+
+#[test]
+fn a_corner_line_is_marked_on_both_sides_and_sliced_through_the_fin() {
+    // Common practice (a fin's corners are where its leakiest path often
+    // runs): a leakiest line on the fin's side face at its top corner,
+    // y = W/2 = 3 nm, z = 0, is drawn at +-y on the mirrored cross-section,
+    // and the along-channel plane at that y shows the fin's silicon beside it.
+    let mut sol = tri_gate().1.clone();
+    let p = &sol.structure.problem;
+    let j =
+        p.y.nodes
+            .iter()
+            .position(|&y| (y - 3.0).abs() < 1e-9)
+            .unwrap();
+    let k = p.z.nodes.iter().position(|&z| z.abs() < 1e-9).unwrap();
+    let mut b = sol.barrier_sat.unwrap();
+    b.line = j + p.ny * k;
+    b.y_nm = 3.0;
+    b.z_nm = 0.0;
+    sol.barrier_sat = Some(b);
+    let f = fin_figures(&sol, "");
+    let c = f.cross_section.as_ref().unwrap();
+    let at: Vec<(f64, f64)> = c.marks.iter().map(|m| m.at).collect();
+    assert_eq!(at, [(3.0, 0.0), (-3.0, 0.0)]);
+    assert!(
+        c.marks[0].label.contains("y = ±3.0 nm"),
+        "{}",
+        c.marks[0].label
+    );
+    for m in &c.marks {
+        assert!(in_region(c, m.at, &|r| r == Region::Silicon));
+    }
+    let a = f.along_channel.as_ref().unwrap();
+    assert_eq!(a.position_nm, 3.0);
+    // Under the gate, just below the top surface: the fin's silicon.
+    assert_eq!(region_at(a, (15.0, 0.2)), Region::Silicon);
+    assert_eq!(region_at(a, (15.0, -0.5)), Region::GateStack(3.9));
+    assert!(a.title.contains("y = 3.0 nm"), "{}", a.title);
+}
