@@ -46,6 +46,7 @@ pub fn run(
         std::fs::write(path, render::device::curves_csv(r))
             .with_context(|| format!("writing {}", path.display()))?;
     }
+    let mut figures_missing = false;
     if let Some(dir) = plots {
         match &ev.solution {
             Some(sol) => {
@@ -62,6 +63,7 @@ pub fn run(
                     for n in &out.notes {
                         eprintln!("note: {}", n.reason);
                     }
+                    figures_missing = out.figures_missing();
                 }
                 None => eprintln!(
                     "no plots: {} devices evaluated by theory alone (--fins theory) are not solved along the channel",
@@ -70,7 +72,7 @@ pub fn run(
             },
         }
     }
-    Ok(Exit::missing_if(!r.problems.is_empty()))
+    Ok(Exit::missing_if(!r.problems.is_empty() || figures_missing))
 }
 
 /// `gatehold lambda DEVICE.toml`
