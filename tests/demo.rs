@@ -162,6 +162,8 @@ fn reduced_demo_file_summary_and_plots_agree() {
         "ss",
         "vt_rolloff",
         "potential_map_Lg-18nm_double-gate",
+        "cross_section_Lg-18nm_tri-gate",
+        "along_channel_Lg-18nm_tri-gate",
     ] {
         let png = std::fs::read(out.join(format!("{stem}.png"))).unwrap();
         assert!(

@@ -39,6 +39,45 @@ pub struct DemoArgs {
     pub fins: Option<gatehold::device::FinMethod>,
 }
 
+/// The 3D figures of the demo's representative fin ([`demo::fin_figure_point`]):
+/// the sweep file holds no 3D fields, so that one point is solved again
+/// (the same scenario, so the same figures) and drawn. A point that failed
+/// in the sweep, or a solve that fails now, is said on stderr, not drawn.
+fn fin_plots(
+    plan: &sweep::Plan,
+    file: &gatehold::io::SweepFile,
+    out: &std::path::Path,
+) -> anyhow::Result<Vec<PathBuf>> {
+    let Some(k) = demo::fin_figure_point(plan) else {
+        return Ok(Vec::new());
+    };
+    let Some(row) = file.rows.iter().position(|r| r.index == k) else {
+        return Ok(Vec::new());
+    };
+    let (_, name) = gatehold::plot::describe::point_name(file, row);
+    if !file.rows[row].status.is_ok() {
+        eprintln!("note: no 3D fin figures: demo point {k} ({name}) did not solve");
+        return Ok(Vec::new());
+    }
+    let s = &plan.points[k].scenario;
+    let ev = match gatehold::evaluate::evaluate_alone(s, &gatehold::progress::Silent) {
+        Ok(ev) => ev,
+        Err(e) => {
+            eprintln!("note: no 3D fin figures: demo point {k} ({name}): {e}");
+            return Ok(Vec::new());
+        }
+    };
+    let Some(sol) = ev.solution_3d else {
+        return Ok(Vec::new());
+    };
+    let done =
+        gatehold::plot::fin_plots(&sol, out, &format!("_{name}")).context("demo fin plots")?;
+    for n in &done.notes {
+        eprintln!("note: {}", n.reason);
+    }
+    Ok(done.files)
+}
+
 /// Runs `gatehold demo`: prints the summary on stdout.
 pub fn demo(args: &DemoArgs) -> anyhow::Result<Exit> {
     let t0 = Instant::now();
@@ -75,7 +114,8 @@ pub fn demo(args: &DemoArgs) -> anyhow::Result<Exit> {
         return Ok(Exit::Stopped);
     }
     let file = gatehold::io::hdf5::read_sweep(&sweep_file)?;
-    let plots = gatehold::plot::sweep_plots(&file, &args.out).context("demo plots")?;
+    let mut plots = gatehold::plot::sweep_plots(&file, &args.out).context("demo plots")?;
+    plots.extend(fin_plots(&plan, &file, &args.out)?);
     let series = sweep::shortest::per_series(&file, &plan.criteria)
         .into_iter()
         .map(|o| {

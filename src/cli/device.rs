@@ -46,6 +46,7 @@ pub fn run(
         std::fs::write(path, render::device::curves_csv(r))
             .with_context(|| format!("writing {}", path.display()))?;
     }
+    let mut figures_missing = false;
     if let Some(dir) = plots {
         match &ev.solution {
             Some(sol) => {
@@ -53,16 +54,25 @@ pub fn run(
                     eprintln!("wrote {}", p.display());
                 }
             }
-            None if ev.solution_3d.is_some() => eprintln!(
-                "no plots: the 3D fin figures (cross-section at the barrier, slice along the leakiest line) are not drawn yet"
-            ),
-            None => eprintln!(
-                "no plots: {} devices evaluated by theory alone (--fins theory) are not solved along the channel",
-                s.architecture
-            ),
+            None => match &ev.solution_3d {
+                Some(sol) => {
+                    let out = gatehold::plot::fin_plots(sol, dir, "")?;
+                    for p in &out.files {
+                        eprintln!("wrote {}", p.display());
+                    }
+                    for n in &out.notes {
+                        eprintln!("note: {}", n.reason);
+                    }
+                    figures_missing = out.figures_missing();
+                }
+                None => eprintln!(
+                    "no plots: {} devices evaluated by theory alone (--fins theory) are not solved along the channel",
+                    s.architecture
+                ),
+            },
         }
     }
-    Ok(Exit::missing_if(!r.problems.is_empty()))
+    Ok(Exit::missing_if(!r.problems.is_empty() || figures_missing))
 }
 
 /// `gatehold lambda DEVICE.toml`

@@ -116,6 +116,24 @@ pub fn plan(o: &DemoOptions) -> Result<Plan, PlanError> {
     })
 }
 
+/// The demo point whose 3D solution is drawn (cross-section at the barrier,
+/// slice along the leakiest line): the shortest fin or wire point solved in
+/// 3D (the first of equals), i.e. the shortest tri-gate, where short-channel
+/// effects show most. None when the fins are theory points.
+pub fn fin_figure_point(p: &Plan) -> Option<usize> {
+    p.points
+        .iter()
+        .filter(|q| {
+            q.scenario.architecture.is_fin()
+                && q.scenario.fin_method == crate::device::FinMethod::Solve3d
+        })
+        .min_by(|a, b| {
+            let l = |q: &&crate::sweep::plan::PlanPoint| q.scenario.geometry.gate_length_nm;
+            l(a).total_cmp(&l(b))
+        })
+        .map(|q| q.index)
+}
+
 /// The criteria the demo judges by (the plan's `[criteria]`).
 pub fn criteria(p: &Plan) -> &Criteria {
     &p.criteria
@@ -147,6 +165,29 @@ mod tests {
         assert_eq!(p.points[5].scenario.geometry.gate_length_nm, 40.0);
         assert_eq!(p.criteria.ss_max_mv_per_dec, Some(75.0));
         assert_eq!(p.criteria.dibl_max_mv_per_v, Some(100.0));
+    }
+
+    #[test]
+    fn the_fin_figures_show_the_shortest_tri_gate_solved_in_3d() {
+        // Common practice (short-channel effects show most at the shortest length).
+        let p = plan(&DemoOptions::default()).unwrap();
+        let k = fin_figure_point(&p).unwrap();
+        assert_eq!(k, 3);
+        assert_eq!(p.points[k].scenario.architecture.name(), "tri-gate");
+        assert_eq!(p.points[k].scenario.geometry.gate_length_nm, 14.0);
+        let o = DemoOptions {
+            lengths_nm: Some(vec![45.0, 18.0, 26.0]),
+            ..DemoOptions::default()
+        };
+        let p = plan(&o).unwrap();
+        let k = fin_figure_point(&p).unwrap();
+        assert_eq!(p.points[k].scenario.geometry.gate_length_nm, 18.0);
+        assert_eq!(p.points[k].scenario.architecture.name(), "tri-gate");
+        let o = DemoOptions {
+            fins: Some(crate::device::FinMethod::Theory),
+            ..DemoOptions::default()
+        };
+        assert_eq!(fin_figure_point(&plan(&o).unwrap()), None);
     }
 
     #[test]

@@ -6,7 +6,7 @@ use super::figure::{
     safe_name, short_number, Cut, Figure, Level, Mark, Missing, Scale, Style, Trace,
 };
 use super::map::MapFigure;
-use crate::evaluate::{Criteria, DeviceSolution};
+use crate::evaluate::{Criteria, DeviceReport, DeviceSolution};
 use crate::io::{series_labels, AxisValue, CurveData, MapData, SweepFile};
 
 /// The plan key of the gate length axis.
@@ -404,7 +404,7 @@ pub struct Omission {
 }
 
 impl Omission {
-    fn missing(reason: String) -> Self {
+    pub(crate) fn missing(reason: String) -> Self {
         Omission {
             reason,
             expected: true,
@@ -503,36 +503,59 @@ pub fn iv_figure(
 /// The band-edge figure along the leakiest row at both drain biases, with
 /// the gate edges; None without a converged off-state potential.
 pub fn band_figure(stem: &str, title: &str, map: &MapData, vds: (f64, f64)) -> Option<Figure> {
+    let traces = [
+        (&map.psi_lin_v, map.leakiest_depth_lin_nm, vds.0),
+        (&map.psi_sat_v, map.leakiest_depth_sat_nm, vds.1),
+    ]
+    .map(|(psi, depth, v)| match (psi, depth) {
+        (Some(p), Some(d)) if p.len() == map.nx() * map.ny() => Some(BandTrace {
+            vds_v: v,
+            line: format!("depth {d:.1} nm"),
+            points: map.band_along(p, d),
+        }),
+        _ => None,
+    });
+    band_lines_figure(stem, title, &traces, (map.gate_start_nm, map.gate_end_nm))
+}
+
+/// The band edge along one leakiest line at one drain bias.
+#[derive(Debug, Clone, PartialEq)]
+pub struct BandTrace {
+    pub vds_v: f64,
+    /// Where the line runs, for the legend ("depth 1.0 nm").
+    pub line: String,
+    /// (x along the channel nm, band edge - source Fermi level eV).
+    pub points: Vec<(f64, f64)>,
+}
+
+/// The band-edge figure of [`band_figure`] from its traces (lin, sat; None:
+/// that drain bias has no converged off state) and the gate edges, nm;
+/// None when no trace has a value.
+pub fn band_lines_figure(
+    stem: &str,
+    title: &str,
+    traces: &[Option<BandTrace>],
+    gate_nm: (f64, f64),
+) -> Option<Figure> {
     let mut fig = Figure::new(
         stem,
         title,
         "x along the channel (nm)",
         "band edge - source Fermi level (eV)",
     );
-    for (c, (psi, depth, v)) in [
-        (&map.psi_lin_v, map.leakiest_depth_lin_nm, vds.0),
-        (&map.psi_sat_v, map.leakiest_depth_sat_nm, vds.1),
-    ]
-    .into_iter()
-    .enumerate()
-    {
-        if let (Some(p), Some(d)) = (psi, depth) {
-            if p.len() == map.nx() * map.ny() {
-                fig.traces.push(Trace {
-                    label: format!("V_DS = {} V (depth {d:.1} nm)", short_number(v)),
-                    points: map.band_along(p, d),
-                    style: Style::curve(c),
-                });
-            }
+    for (c, t) in traces.iter().enumerate() {
+        if let Some(t) = t {
+            fig.traces.push(Trace {
+                label: format!("V_DS = {} V ({})", short_number(t.vds_v), t.line),
+                points: t.points.clone(),
+                style: Style::curve(c),
+            });
         }
     }
     if !fig.is_drawable() {
         return None;
     }
-    for (x, l) in [
-        (map.gate_start_nm, "gate start"),
-        (map.gate_end_nm, "gate end"),
-    ] {
+    for (x, l) in [(gate_nm.0, "gate start"), (gate_nm.1, "gate end")] {
         fig.cuts.push(Cut {
             x,
             label: l.into(),
@@ -652,28 +675,39 @@ pub fn point_figures(f: &SweepFile) -> (Vec<PointFigures<'_>>, Vec<Omission>) {
     (out, notes)
 }
 
-/// The figures of one solved device, named `iv`, `potential_map`, `band`.
-pub fn device_figures<'a>(
-    sol: &DeviceSolution,
-    map: &'a MapData,
-) -> (Option<PointFigures<'a>>, Vec<Omission>) {
-    let r = &sol.report;
+/// "NAME, L_g = 20 nm": a solved device in titles.
+pub fn device_name(r: &DeviceReport) -> String {
+    format!("{}, L_g = {} nm", r.name, short_number(r.gate_length_nm))
+}
+
+/// The I_D-V_G figure of one device report (its curves, V_t lines and
+/// threshold current); None when no bias point has a current.
+pub fn report_iv_figure(r: &DeviceReport, stem: &str) -> Option<Figure> {
     let nan = |v: &Vec<Option<f64>>| v.iter().map(|x| x.unwrap_or(f64::NAN)).collect();
     let curve = CurveData {
         vgs_v: r.vgs_v.clone(),
         id_lin: nan(&r.id_lin),
         id_sat: nan(&r.id_sat),
     };
-    let name = format!("{}, L_g = {} nm", r.name, short_number(r.gate_length_nm));
-    let vds = (r.vds_lin_v, r.vds_sat_v);
-    let Some(iv) = iv_figure(
-        "iv",
-        &format!("I_D-V_G: {name}"),
+    iv_figure(
+        stem,
+        &format!("I_D-V_G: {}", device_name(r)),
         &curve,
-        vds,
+        (r.vds_lin_v, r.vds_sat_v),
         (r.vt_lin_v, r.vt_sat_v),
         Some(r.threshold_current_a_per_um),
-    ) else {
+    )
+}
+
+/// The figures of one solved device, named `iv`, `potential_map`, `band`.
+pub fn device_figures<'a>(
+    sol: &DeviceSolution,
+    map: &'a MapData,
+) -> (Option<PointFigures<'a>>, Vec<Omission>) {
+    let r = &sol.report;
+    let name = device_name(r);
+    let vds = (r.vds_lin_v, r.vds_sat_v);
+    let Some(iv) = report_iv_figure(r, "iv") else {
         return (
             None,
             vec![Omission::missing(format!(

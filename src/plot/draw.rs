@@ -330,6 +330,15 @@ where
 }
 
 /// Draws a potential map with its region outlines, contacts, names and colour bar.
+/// Caption size of a map, px: smaller for long titles so that they fit.
+fn title_size(title: &str) -> u32 {
+    if title.chars().count() > 80 {
+        15
+    } else {
+        18
+    }
+}
+
 pub fn draw_map<DB: DrawingBackend>(root: &DrawingArea<DB, Shift>, f: &MapFigure<'_>) -> DrawResult
 where
     DB::ErrorType: 'static,
@@ -344,7 +353,7 @@ where
     let (y0, y1) = (m.y_nm[0], m.y_nm[ny - 1]);
     let (xd, yd) = (decimals(x0, x1), decimals(y0, y1));
     let mut chart = ChartBuilder::on(&main)
-        .caption(&f.title, (FONT, 18))
+        .caption(&f.title, (FONT, title_size(&f.title)))
         .margin(12)
         .x_label_area_size(45)
         .y_label_area_size(60)
@@ -352,8 +361,8 @@ where
     chart
         .configure_mesh()
         .disable_mesh()
-        .x_desc("x along the channel (nm)")
-        .y_desc("y below the silicon surface (nm)")
+        .x_desc(f.x_desc.as_str())
+        .y_desc(f.y_desc.as_str())
         .x_label_formatter(&|v| axis_text(*v, xd))
         .y_label_formatter(&|v| axis_text(*v, yd))
         .label_style((FONT, 14))
@@ -401,6 +410,25 @@ where
         let w = 7 * l.text.len() as i32 + 6;
         chart.draw_series(std::iter::once(boxed(l.text, l.at, -w / 2, -8)))?;
     }
+    for g in &f.guides {
+        chart.draw_series(DashedLineSeries::new(
+            g.segment.to_vec(),
+            6,
+            4,
+            WHITE.stroke_width(2),
+        ))?;
+        chart.draw_series(std::iter::once(boxed(&g.label, g.segment[0], 4, 4)))?;
+    }
+    for m in &f.marks {
+        chart.draw_series(std::iter::once(
+            EmptyElement::at(m.at)
+                + Circle::new((0, 0), RING, WHITE.stroke_width(3))
+                + Circle::new((0, 0), RING, BLACK.stroke_width(1)),
+        ))?;
+        if !m.label.is_empty() {
+            chart.draw_series(std::iter::once(boxed(&m.label, m.at, RING + 2, -RING - 18)))?;
+        }
+    }
     for c in &f.contacts {
         let [(ax, ay), (bx, by)] = c.segment;
         let mid = (0.5 * (ax + bx), 0.5 * (ay + by));
@@ -420,7 +448,7 @@ where
     cb.configure_mesh()
         .disable_mesh()
         .disable_x_axis()
-        .y_desc("potential (V)")
+        .y_desc(f.value_desc.as_str())
         .y_label_formatter(&|v| tick_text(*v, decimals))
         .label_style((FONT, 12))
         .draw()?;

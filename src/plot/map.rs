@@ -1,7 +1,9 @@
 //! The potential map's description: the regions of the planar structure
 //! rebuilt from the stored map (materials, permittivities, gate edges and the
 //! potential held at the contacts), their outlines and names, and the colour
-//! bar's tick text.
+//! bar's tick text. The 2D slices of a 3D fin ([`super::fin`]) use the same
+//! description with their regions given ([`MapFigure::with_regions`]), their
+//! own axis titles, and marked points and guide lines.
 
 use crate::io::MapData;
 use crate::structure::{BACK_PLANE, GATE};
@@ -18,6 +20,12 @@ pub enum Region {
     BuriedOxide,
     /// Metal electrode k (the structure's electrode numbering).
     Electrode(usize),
+    /// Dielectric on top of a fin, inside the gate stack (capped fin).
+    Cap,
+    /// Dielectric beside a sub-fin (a fin on a bulk substrate).
+    Isolation,
+    /// Silicon below the gated fin (a fin on a bulk substrate).
+    SubFin,
 }
 
 /// A line segment in nm (x along the channel, y down from the silicon surface).
@@ -37,6 +45,20 @@ pub struct RegionLabel {
     pub at: (f64, f64),
 }
 
+/// A point singled out on a map (a ring and a boxed label).
+#[derive(Debug, Clone, PartialEq)]
+pub struct MapMark {
+    pub at: (f64, f64),
+    pub label: String,
+}
+
+/// A dashed guide line on a map, labelled at its first end.
+#[derive(Debug, Clone, PartialEq)]
+pub struct MapGuide {
+    pub segment: Segment,
+    pub label: String,
+}
+
 /// The potential map, described.
 #[derive(Debug, Clone)]
 pub struct MapFigure<'a> {
@@ -51,6 +73,14 @@ pub struct MapFigure<'a> {
     pub outlines: Vec<Segment>,
     pub contacts: Vec<Contact>,
     pub labels: Vec<RegionLabel>,
+    /// Region of each cell (`i + j * (nx - 1)`).
+    pub regions: Vec<Region>,
+    /// Axis titles with units: across (x), down (y), and the colour bar.
+    pub x_desc: String,
+    pub y_desc: String,
+    pub value_desc: String,
+    pub marks: Vec<MapMark>,
+    pub guides: Vec<MapGuide>,
 }
 
 fn region(m: &MapData, i: usize, j: usize) -> Region {
@@ -77,7 +107,35 @@ impl<'a> MapFigure<'a> {
     /// no value is finite.
     pub fn new(stem: &str, title: &str, map: &'a MapData, psi: &'a [f64]) -> Option<Self> {
         let (nx, ny) = (map.nx(), map.ny());
-        if nx < 2 || ny < 2 || psi.len() != nx * ny || map.material.len() != (nx - 1) * (ny - 1) {
+        if nx < 2 || ny < 2 || map.material.len() != (nx - 1) * (ny - 1) {
+            return None;
+        }
+        let regions = (0..ny - 1)
+            .flat_map(|j| (0..nx - 1).map(move |i| (i, j)))
+            .map(|(i, j)| region(map, i, j))
+            .collect();
+        Self::with_regions(stem, title, map, psi, regions, true)
+    }
+
+    /// Describes the map of `psi` on `map` with the region of each cell
+    /// given (`i + j * (nx - 1)`); `end_contacts`: look for source and drain
+    /// contacts on the first and last x line. None when the sizes disagree
+    /// or no value is finite.
+    pub fn with_regions(
+        stem: &str,
+        title: &str,
+        map: &'a MapData,
+        psi: &'a [f64],
+        regions: Vec<Region>,
+        end_contacts: bool,
+    ) -> Option<Self> {
+        let (nx, ny) = (map.nx(), map.ny());
+        if nx < 2
+            || ny < 2
+            || psi.len() != nx * ny
+            || map.material.len() != (nx - 1) * (ny - 1)
+            || regions.len() != (nx - 1) * (ny - 1)
+        {
             return None;
         }
         let (lo, hi) = psi
@@ -89,7 +147,7 @@ impl<'a> MapFigure<'a> {
         if !lo.is_finite() {
             return None;
         }
-        let reg = |i, j| region(map, i, j);
+        let reg = |i: usize, j: usize| regions[i + j * (nx - 1)];
         let (x, y) = (&map.x_nm, &map.y_nm);
         let mut outlines = Vec::new();
         for j in 0..ny - 1 {
@@ -113,7 +171,12 @@ impl<'a> MapFigure<'a> {
                 .any(|&a| cy.iter().flatten().any(|&b| reg(a, b) == Region::Silicon))
         };
         let top = (0..ny).find(|&j| y[j] >= 0.0);
-        for (name, i) in [("source", 0), ("drain", nx - 1)] {
+        let ends: &[(&'static str, usize)] = if end_contacts {
+            &[("source", 0), ("drain", nx - 1)]
+        } else {
+            &[]
+        };
+        for &(name, i) in ends {
             let Some(j0) = top.filter(|&j| si_node(i, j)) else {
                 continue;
             };
@@ -133,7 +196,8 @@ impl<'a> MapFigure<'a> {
             }
         }
         let jb = ny - 1;
-        let bottom_si = (0..nx - 1).all(|i| reg(i, jb - 1) == Region::Silicon);
+        let bottom_si =
+            (0..nx - 1).all(|i| matches!(reg(i, jb - 1), Region::Silicon | Region::SubFin));
         let held = psi[jb * nx];
         if bottom_si && (0..nx).all(|i| (psi[i + jb * nx] - held).abs() <= HELD_V) {
             contacts.push(Contact {
@@ -142,10 +206,13 @@ impl<'a> MapFigure<'a> {
             });
         }
         // Names at the area-weighted centre of each region (spacers on
-        // either side of the gate apart).
+        // either side of the gate apart), or at the region's cell nearest
+        // that centre when the centre lies outside it (a gate wrapped
+        // around a fin).
         let mut labels = Vec::new();
         let mut centre = |text: &'static str, keep: &dyn Fn(Region, f64) -> bool| {
             let (mut a, mut sx, mut sy) = (0.0, 0.0, 0.0);
+            let mut inside = Vec::new();
             for j in 0..ny - 1 {
                 for i in 0..nx - 1 {
                     let xc = 0.5 * (x[i] + x[i + 1]);
@@ -154,14 +221,29 @@ impl<'a> MapFigure<'a> {
                         a += w;
                         sx += w * xc;
                         sy += w * 0.5 * (y[j] + y[j + 1]);
+                        inside.push((i, j));
                     }
                 }
             }
             if a > 0.0 {
-                labels.push(RegionLabel {
-                    text,
-                    at: (sx / a, sy / a),
-                });
+                let c = (sx / a, sy / a);
+                let holds = |&(i, j): &(usize, usize)| {
+                    x[i] <= c.0 && c.0 <= x[i + 1] && y[j] <= c.1 && c.1 <= y[j + 1]
+                };
+                let at = if inside.iter().any(holds) {
+                    c
+                } else {
+                    let mid = |&(i, j): &(usize, usize)| {
+                        (0.5 * (x[i] + x[i + 1]), 0.5 * (y[j] + y[j + 1]))
+                    };
+                    let d = |p: (f64, f64)| (p.0 - c.0).powi(2) + (p.1 - c.1).powi(2);
+                    inside
+                        .iter()
+                        .map(mid)
+                        .min_by(|p, q| d(*p).total_cmp(&d(*q)))
+                        .unwrap_or(c)
+                };
+                labels.push(RegionLabel { text, at });
             }
         };
         let (g0, g1) = (map.gate_start_nm, map.gate_end_nm);
@@ -170,6 +252,9 @@ impl<'a> MapFigure<'a> {
         centre("spacer", &|r, xc| r == Region::Spacer && xc < g0);
         centre("spacer", &|r, xc| r == Region::Spacer && xc > g1);
         centre("buried oxide", &|r, _| r == Region::BuriedOxide);
+        centre("cap", &|r, _| r == Region::Cap);
+        centre("isolation", &|r, _| r == Region::Isolation);
+        centre("sub-fin", &|r, _| r == Region::SubFin);
         Some(MapFigure {
             stem: stem.into(),
             title: title.into(),
@@ -179,6 +264,12 @@ impl<'a> MapFigure<'a> {
             outlines,
             contacts,
             labels,
+            regions,
+            x_desc: "x along the channel (nm)".into(),
+            y_desc: "y below the silicon surface (nm)".into(),
+            value_desc: "potential (V)".into(),
+            marks: Vec::new(),
+            guides: Vec::new(),
         })
     }
 
@@ -190,7 +281,7 @@ impl<'a> MapFigure<'a> {
 
     /// True when the cell (i, j) is in `r`.
     pub fn region_of(&self, i: usize, j: usize) -> Region {
-        region(self.map, i, j)
+        self.regions[i + j * (self.map.nx() - 1)]
     }
 }
 

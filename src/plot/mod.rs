@@ -8,7 +8,9 @@
 //!
 //! Entry points: [`sweep_plots`] (everything a sweep file holds, with the
 //! plan's criteria), [`sweep_plots_with`] (other criteria, and notes on what
-//! was left out), [`device_plots`] (one solved device), and the single
+//! was left out), [`device_plots`] (one solved device), [`fin_plots`] (one
+//! fin or wire solved in 3D: cross-section at the barrier, along-channel
+//! slice through the leakiest line, band edge along it), and the single
 //! figures [`figure_vs_length`], [`iv_plot`], [`map_plot`], [`band_plot`].
 //! Solved values are solid lines with filled markers; theory is dashed with
 //! hollow markers and "(theory)" in its label; points without a value are
@@ -28,6 +30,7 @@ use crate::io::{CurveData, MapData, SweepFile};
 
 pub mod describe;
 pub mod figure;
+pub mod fin;
 pub mod map;
 
 use figure::{Figure, Style, Trace};
@@ -354,6 +357,30 @@ pub fn device_plots(sol: &DeviceSolution, dir: &Path) -> Result<Vec<PathBuf>, Pl
         }
     }
     Ok(out.files)
+}
+
+/// All figures of one fin or wire solved in 3D into `dir` ([`fin::fin_figures`]):
+/// `iv`, `cross_section`, `along_channel` and `band`, each stem ending in
+/// `suffix`. What the data cannot hold is left out with a note, never
+/// written as an empty file.
+pub fn fin_plots(sol: &DeviceSolution, dir: &Path, suffix: &str) -> Result<PlotOutcome, PlotError> {
+    let f = fin::fin_figures(sol, suffix);
+    let mut out = PlotOutcome {
+        files: Vec::new(),
+        notes: f.notes.clone(),
+    };
+    if let Some(iv) = &f.iv {
+        out.files.extend(write_figure(dir, iv)?);
+    }
+    for s in [&f.cross_section, &f.along_channel].into_iter().flatten() {
+        if let Some(m) = s.figure() {
+            out.files.extend(write_map(dir, &m)?);
+        }
+    }
+    if let Some(b) = &f.band {
+        out.files.extend(write_figure(dir, b)?);
+    }
+    Ok(out)
 }
 
 /// The `[criteria]` of the plan stored in a sweep file (none: empty).
