@@ -28,7 +28,7 @@ fn demo_tri_gate(l_nm: f64, r: f64) -> Scenario {
 }
 
 #[test]
-#[ignore = "a measurement: GATEHOLD_L_NM=14 GATEHOLD_REFINE=2.2 GATEHOLD_SOLVER=multigrid cargo test --release --test solver3d -- --ignored --nocapture one_bias_point"]
+#[ignore = "a measurement (GATEHOLD_RAMPS=1 adds both drain ramps): GATEHOLD_L_NM=14 GATEHOLD_REFINE=2.2 GATEHOLD_SOLVER=multigrid cargo test --release --test solver3d -- --ignored --nocapture one_bias_point"]
 fn one_bias_point() {
     let env = |k: &str, d: &str| std::env::var(k).unwrap_or_else(|_| d.into());
     let l: f64 = env("GATEHOLD_L_NM", "14").parse().unwrap();
@@ -46,10 +46,16 @@ fn one_bias_point() {
     let levels = solver.multigrid_levels();
     let mut d = DeviceSolver::new(&s, &st, solver);
     let t1 = Instant::now();
-    let _psi = d.equilibrium(0.0).unwrap();
+    let eq = d.equilibrium(s.bias.vgs_start_v).unwrap();
+    if env("GATEHOLD_RAMPS", "0") == "1" {
+        // Both drain ramps, as a full extraction does them.
+        for vds in [s.bias.vds_lin_v, s.bias.vds_sat_v] {
+            d.gate_ramp(vds, Some(&eq), &Silent).unwrap();
+        }
+    }
     let solve = t1.elapsed().as_secs_f64();
     println!(
-        "{} nodes ({}x{}x{}), {} unknowns, {}: setup {setup:.2} s, equilibrium {solve:.2} s, {} Newton steps, {} setups, {} CG iterations; levels {levels:?}",
+        "{} nodes ({}x{}x{}), {} unknowns, {}: setup {setup:.2} s, solve {solve:.2} s, {} Newton steps, {} setups, {} CG iterations; levels {levels:?}",
         p.node_count(), p.nx, p.ny, p.nz,
         d.solver.unknowns(),
         choice.as_str(),

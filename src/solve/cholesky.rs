@@ -53,7 +53,7 @@ impl LinearSolver {
 
 /// 3D problems with at least this many unknowns use the multigrid-preconditioned
 /// CG (measured crossover, `docs/fins-3d.md`).
-pub const MULTIGRID_FROM_UNKNOWNS: usize = 60_000;
+pub const MULTIGRID_FROM_UNKNOWNS: usize = 20_000;
 
 /// The factorisation or preconditioner of the Jacobian.
 enum Backend {
