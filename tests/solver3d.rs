@@ -76,7 +76,7 @@ fn small_tri_gate() -> Scenario {
 fn multigrid_cg_and_cholesky_give_the_same_figures() {
     // Common practice (inexact Newton, Dembo, Eisenstat and Steihaug, SIAM J.
     // Numer. Anal. 19(2), 400, 1982): with the CG stopped at a relative
-    // residual of 1e-6 each Newton step is solved far below the Newton
+    // residual of 1e-5 each Newton step is solved far below the Newton
     // tolerance's effect on the figures, so V_t, SS and DIBL agree with the
     // direct solve and Newton takes the same number of steps.
     let s = small_tri_gate();
@@ -107,6 +107,12 @@ fn multigrid_cg_and_cholesky_give_the_same_figures() {
         figures.push((eq_steps, vt_lin, vt_sat, ss_lin, ss_sat, dibl_mv));
     }
     let (a, b) = (figures[0], figures[1]);
+    println!(
+        "differences: V_t,lin {:.2e} mV, V_t,sat {:.2e} mV, DIBL {:.2e} %",
+        1e3 * (a.1 - b.1).abs(),
+        1e3 * (a.2 - b.2).abs(),
+        100.0 * ((a.5 - b.5) / a.5).abs()
+    );
     assert_eq!(a.0, b.0, "equilibrium Newton steps");
     for (name, x, y) in [("V_t,lin", a.1, b.1), ("V_t,sat", a.2, b.2)] {
         assert!(
