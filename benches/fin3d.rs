@@ -7,7 +7,13 @@
 //!   length. Target (issue 8): <= 10 s and <= 2 GB on the 2-core machine; goal 3 s.
 //! - `fin3d bias point, refined`: one bias point (equilibrium, drain ramp to
 //!   V_DS,lin) of the demo tri-gate on a mesh refined to about 500k nodes.
-//!   Target: <= 4 s; goal 2 s.
+//!   Target: <= 4 s; goal 2 s. Above 20k 3D unknowns this uses the
+//!   multigrid-preconditioned CG.
+//! - `fin3d linear step, cholesky` / `fin3d linear step, multigrid-cg`: one
+//!   Newton step (Jacobian refresh: numeric factorisation, or diagonal update
+//!   and coarsest factorisation; then the solve) of the demo tri-gate refined
+//!   to about 110k nodes, with each linear solver (hierarchy and symbolic
+//!   analysis built once, outside the timing).
 //!
 //! Run: `cargo bench --bench fin3d` (one group: `cargo bench --bench fin3d -- refactorisation`).
 
@@ -15,7 +21,7 @@ use criterion::{criterion_group, criterion_main, Criterion};
 use gatehold::device::{parse_device, Scenario};
 use gatehold::evaluate::evaluate_alone;
 use gatehold::progress::Silent;
-use gatehold::solve::{neutral_guess, DeviceSolver, PoissonSolver, QuasiFermi};
+use gatehold::solve::{neutral_guess, DeviceSolver, LinearSolver, PoissonSolver, QuasiFermi};
 use gatehold::structure::along_fin;
 
 /// The demo's tri-gate at its shortest length (the demo plan's values).
@@ -64,6 +70,28 @@ fn bench(c: &mut Criterion) {
             })
         },
     );
+    let mut big = s.clone();
+    big.mesh.refinement = 2.5;
+    let sb = along_fin(&big);
+    let pb = &sb.problem;
+    let qfb = QuasiFermi::uniform(pb.nx, 0.0, 0.0);
+    let psib = neutral_guess(pb, &qfb);
+    for choice in [LinearSolver::Direct, LinearSolver::Multigrid] {
+        let mut solver = PoissonSolver::with_linear_solver(pb, choice).expect("setup");
+        g.bench_function(
+            format!(
+                "linear step, {} ({} nodes)",
+                choice.as_str(),
+                pb.node_count()
+            ),
+            |b| {
+                b.iter(|| {
+                    let mut psi = psib.clone();
+                    solver.step(pb, &mut psi, &qfb, 0.1, true).expect("step")
+                })
+            },
+        );
+    }
     g.finish();
 }
 

@@ -14,34 +14,96 @@ use faer::sparse::linalg::cholesky::{
 use faer::sparse::{SparseColMatRef, SymbolicSparseColMatRef};
 use faer::{Conj, MatMut, Par, Side};
 
+use super::multigrid::{Multigrid, CG_MAX_ITERATIONS, CG_RELATIVE_TOLERANCE};
 use super::{NewtonOptions, QuasiFermi, SolveError, SolveReport, StepStats, Termination};
 use crate::discretize::{NodeKind, Problem};
 
 const NONE: usize = usize::MAX;
 
-/// Matrix pattern, symbolic factorisation and workspace for one mesh.
+/// Which linear solver a [`PoissonSolver`] uses for its Newton steps.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum LinearSolver {
+    /// Sparse Cholesky (AMD ordering in 2D, nested dissection in 3D).
+    Direct,
+    /// Conjugate gradients preconditioned by a geometric-multigrid V-cycle
+    /// ([`crate::solve::multigrid`]).
+    Multigrid,
+}
+
+impl LinearSolver {
+    /// The automatic choice: multigrid-preconditioned CG for 3D problems
+    /// with at least [`MULTIGRID_FROM_UNKNOWNS`] unknowns, the direct
+    /// factorisation otherwise (every 2D problem).
+    pub fn for_problem(p: &Problem, unknowns: usize) -> Self {
+        if p.is_3d() && unknowns >= MULTIGRID_FROM_UNKNOWNS {
+            LinearSolver::Multigrid
+        } else {
+            LinearSolver::Direct
+        }
+    }
+
+    /// Stable name for outputs.
+    pub fn as_str(&self) -> &'static str {
+        match self {
+            LinearSolver::Direct => "cholesky",
+            LinearSolver::Multigrid => "multigrid-cg",
+        }
+    }
+}
+
+/// 3D problems with at least this many unknowns use the multigrid-preconditioned
+/// CG (measured crossover, `docs/fins-3d.md`).
+pub const MULTIGRID_FROM_UNKNOWNS: usize = 20_000;
+
+/// The factorisation or preconditioner of the Jacobian.
+enum Backend {
+    Direct {
+        symbolic: std::sync::Arc<SymbolicCholesky<usize>>,
+        l_values: Vec<f64>,
+        fmem: MemBuffer,
+        smem: MemBuffer,
+    },
+    Multigrid {
+        mg: Box<Multigrid>,
+        /// The Jacobian diagonal, gathered for the preconditioner.
+        diag: Vec<f64>,
+    },
+}
+
+/// Matrix pattern, symbolic factorisation (or multigrid hierarchy) and
+/// workspace for one mesh.
 pub struct PoissonSolver {
     /// Matrix pattern and node numbering, shared by clones (one per mesh).
     pattern: std::sync::Arc<Pattern>,
     /// Jacobian values (off-diagonals fixed on a mesh, diagonal per step).
     values: Vec<f64>,
-    symbolic: std::sync::Arc<SymbolicCholesky<usize>>,
-    l_values: Vec<f64>,
-    fmem: MemBuffer,
-    smem: MemBuffer,
+    backend: Backend,
     rhs: Vec<f64>,
     factored: bool,
-    /// Numeric factorisations done so far.
+    /// Numeric factorisations (direct) or preconditioner setups (multigrid:
+    /// diagonal update and coarsest-level factorisation) done so far.
     pub factorisations: usize,
+    /// Conjugate-gradient iterations done so far (0 for the direct solver).
+    pub cg_iterations: usize,
 }
 
 impl Clone for PoissonSolver {
     fn clone(&self) -> Self {
-        PoissonSolver::with_symbolic(
-            self.pattern.clone(),
-            self.values.clone(),
-            self.symbolic.clone(),
-        )
+        match &self.backend {
+            Backend::Direct { symbolic, .. } => PoissonSolver::with_symbolic(
+                self.pattern.clone(),
+                self.values.clone(),
+                symbolic.clone(),
+            ),
+            Backend::Multigrid { mg, diag } => PoissonSolver::with_backend(
+                self.pattern.clone(),
+                self.values.clone(),
+                Backend::Multigrid {
+                    mg: mg.clone(),
+                    diag: vec![0.0; diag.len()],
+                },
+            ),
+        }
     }
 }
 
@@ -157,9 +219,38 @@ impl PoissonSolver {
     /// Orders and analyses the Jacobian's pattern for this mesh (done once):
     /// approximate minimum degree in 2D, geometric nested dissection on the
     /// tensor mesh in 3D (less fill, faster numeric factorisation: measured in
-    /// `benches/fin3d.rs`).
+    /// `benches/fin3d.rs`); large 3D meshes get the multigrid hierarchy
+    /// instead ([`LinearSolver::for_problem`]).
     pub fn new(p: &Problem) -> Result<Self, SolveError> {
         let (pat, values) = Self::pattern(p);
+        let choice = LinearSolver::for_problem(p, pat.n);
+        Self::build(p, pat, values, choice)
+    }
+
+    /// As [`PoissonSolver::new`] with the linear solver chosen by the caller.
+    pub fn with_linear_solver(p: &Problem, choice: LinearSolver) -> Result<Self, SolveError> {
+        let (pat, values) = Self::pattern(p);
+        Self::build(p, pat, values, choice)
+    }
+
+    fn build(
+        p: &Problem,
+        pat: Pattern,
+        values: Vec<f64>,
+        choice: LinearSolver,
+    ) -> Result<Self, SolveError> {
+        if choice == LinearSolver::Multigrid {
+            let mg = Multigrid::new(p, &pat.node_of)?;
+            let n = pat.n;
+            return Ok(Self::with_backend(
+                std::sync::Arc::new(pat),
+                values,
+                Backend::Multigrid {
+                    mg: Box::new(mg),
+                    diag: vec![0.0; n],
+                },
+            ));
+        }
         let sym =
             SymbolicSparseColMatRef::new_checked(pat.n, pat.n, &pat.col_ptr, None, &pat.row_idx);
         let (fwd, inv) = if p.is_3d() {
@@ -196,17 +287,111 @@ impl PoissonSolver {
         let fmem =
             MemBuffer::new(symbolic.factorize_numeric_llt_scratch::<f64>(par, Default::default()));
         let smem = MemBuffer::new(symbolic.solve_in_place_scratch::<f64>(1, par));
+        Self::with_backend(
+            pattern,
+            values,
+            Backend::Direct {
+                symbolic,
+                l_values,
+                fmem,
+                smem,
+            },
+        )
+    }
+
+    fn with_backend(pattern: std::sync::Arc<Pattern>, values: Vec<f64>, backend: Backend) -> Self {
         PoissonSolver {
             rhs: vec![0.0; pattern.n],
             pattern,
             values,
-            symbolic,
-            l_values,
-            fmem,
-            smem,
+            backend,
             factored: false,
             factorisations: 0,
+            cg_iterations: 0,
         }
+    }
+
+    /// The linear solver in use.
+    pub fn linear_solver(&self) -> LinearSolver {
+        match self.backend {
+            Backend::Direct { .. } => LinearSolver::Direct,
+            Backend::Multigrid { .. } => LinearSolver::Multigrid,
+        }
+    }
+
+    /// Multigrid levels' unknowns, finest first (empty for the direct solver).
+    pub fn multigrid_levels(&self) -> Vec<usize> {
+        match &self.backend {
+            Backend::Direct { .. } => Vec::new(),
+            Backend::Multigrid { mg, .. } => mg.level_unknowns(),
+        }
+    }
+
+    /// Refreshes the factorisation or preconditioner from `values`.
+    fn refresh(&mut self) -> Result<(), SolveError> {
+        self.factored = false;
+        let pat = &self.pattern;
+        match &mut self.backend {
+            Backend::Direct {
+                symbolic,
+                l_values,
+                fmem,
+                ..
+            } => {
+                let a = SparseColMatRef::new(
+                    SymbolicSparseColMatRef::new_checked(
+                        pat.n,
+                        pat.n,
+                        &pat.col_ptr,
+                        None,
+                        &pat.row_idx,
+                    ),
+                    &self.values,
+                );
+                symbolic
+                    .factorize_numeric_llt::<f64>(
+                        l_values,
+                        a,
+                        Side::Lower,
+                        LltRegularization::default(),
+                        Par::Seq,
+                        MemStack::new(fmem),
+                        Default::default(),
+                    )
+                    .map_err(|e| SolveError::Factorisation(format!("{e:?}")))?;
+            }
+            Backend::Multigrid { mg, diag } => {
+                for (d, &pos) in diag.iter_mut().zip(&pat.diag_pos) {
+                    *d = self.values[pos];
+                }
+                mg.set_diagonal(diag)?;
+            }
+        }
+        self.factored = true;
+        self.factorisations += 1;
+        Ok(())
+    }
+
+    /// Solves J x = b in place with the last factorisation or preconditioner.
+    fn solve_in_place(&mut self, b: &mut [f64]) -> Result<(), SolveError> {
+        let n = self.pattern.n;
+        match &mut self.backend {
+            Backend::Direct {
+                symbolic,
+                l_values,
+                smem,
+                ..
+            } => {
+                let llt = faer::sparse::linalg::cholesky::LltRef::new(symbolic, l_values);
+                let x = MatMut::from_column_major_slice_mut(b, n, 1);
+                llt.solve_in_place_with_conj(Conj::No, x, Par::Seq, MemStack::new(smem));
+            }
+            Backend::Multigrid { mg, .. } => {
+                let st = mg.solve(b, CG_RELATIVE_TOLERANCE, CG_MAX_ITERATIONS)?;
+                self.cg_iterations += st.iterations;
+            }
+        }
+        Ok(())
     }
 
     /// Number of unknowns.
@@ -253,37 +438,14 @@ impl PoissonSolver {
         refactor: bool,
     ) -> Result<StepStats, SolveError> {
         let residual = self.assemble(p, psi, qf);
-        let par = Par::Seq;
         if refactor || !self.factored {
-            let a = SparseColMatRef::new(
-                SymbolicSparseColMatRef::new_checked(
-                    self.pattern.n,
-                    self.pattern.n,
-                    &self.pattern.col_ptr,
-                    None,
-                    &self.pattern.row_idx,
-                ),
-                &self.values,
-            );
-            self.factored = false;
-            self.symbolic
-                .factorize_numeric_llt::<f64>(
-                    &mut self.l_values,
-                    a,
-                    Side::Lower,
-                    LltRegularization::default(),
-                    par,
-                    MemStack::new(&mut self.fmem),
-                    Default::default(),
-                )
-                .map_err(|e| SolveError::Factorisation(format!("{e:?}")))?;
-            self.factored = true;
-            self.factorisations += 1;
+            self.refresh()?;
         }
-        let llt = faer::sparse::linalg::cholesky::LltRef::new(&self.symbolic, &self.l_values);
+        let mut rhs = std::mem::take(&mut self.rhs);
+        let solved = self.solve_in_place(&mut rhs);
+        self.rhs = rhs;
+        solved?;
         let pat = &self.pattern;
-        let x = MatMut::from_column_major_slice_mut(&mut self.rhs, pat.n, 1);
-        llt.solve_in_place_with_conj(Conj::No, x, par, MemStack::new(&mut self.smem));
         let mut max_update: f64 = 0.0;
         for u in 0..pat.n {
             let d = self.rhs[u];
@@ -327,10 +489,7 @@ impl PoissonSolver {
         assert_eq!(b.len(), self.pattern.n, "one value per unknown");
         let mut scratch = psi.to_vec();
         self.step(p, &mut scratch, qf, f64::INFINITY, true)?;
-        let llt = faer::sparse::linalg::cholesky::LltRef::new(&self.symbolic, &self.l_values);
-        let x = MatMut::from_column_major_slice_mut(b, self.pattern.n, 1);
-        llt.solve_in_place_with_conj(Conj::No, x, Par::Seq, MemStack::new(&mut self.smem));
-        Ok(())
+        self.solve_in_place(b)
     }
 
     /// Newton iteration with fixed quasi-Fermi levels until converged or out of steps.

@@ -3,6 +3,7 @@
 //! | piece | module | entry point |
 //! |---|---|---|
 //! | sparse Cholesky, damped Newton step | [`cholesky`] | [`PoissonSolver`] |
+//! | multigrid-preconditioned CG for large 3D meshes | [`multigrid`] | [`multigrid::Multigrid`] |
 //! | Anderson acceleration | [`anderson`] | [`Anderson`] |
 //! | channel quasi-Fermi level and current (MODEL.md section 4) | [`transport`] | [`transport::quasi_fermi`] |
 //! | the coupled potential / quasi-Fermi-level loop at one bias point | [`coupled`] | [`DeviceSolver::solve_bias_point`] |
@@ -15,12 +16,13 @@
 pub mod anderson;
 pub mod cholesky;
 pub mod coupled;
+pub mod multigrid;
 pub mod ramp;
 pub mod transport;
 pub mod uniform;
 
 pub use anderson::Anderson;
-pub use cholesky::PoissonSolver;
+pub use cholesky::{LinearSolver, PoissonSolver};
 pub use coupled::DeviceSolver;
 pub use ramp::{BiasPoint, GateRamp};
 pub use uniform::{UniformChannel, UniformSolveError};
@@ -32,6 +34,12 @@ use crate::discretize::{NodeKind, Problem};
 pub enum SolveError {
     #[error("the Jacobian is not positive definite (factorisation failed): {0}")]
     Factorisation(String),
+    #[error("the conjugate-gradient solve of a Newton step did not converge: relative residual {relative_residual:.2e} after {iterations} iterations (tolerance {tolerance:.0e})")]
+    LinearSolve {
+        iterations: usize,
+        relative_residual: f64,
+        tolerance: f64,
+    },
     #[error("symbolic analysis failed: {0}")]
     Symbolic(String),
     #[error("a non-finite potential appeared at node {node} (x = {x_nm:.3} nm, y = {y_nm:.3} nm, z = {z_nm:.3} nm)")]
