@@ -166,3 +166,58 @@ fn templates_parse_and_lambda_json_has_the_contract_keys() {
     assert_eq!(out.status.code(), Some(1));
     assert!(String::from_utf8_lossy(&out.stderr).contains("gate-all-around"));
 }
+
+/// Bad `gatehold pitch` options are usage errors (exit 64, the README's
+/// exit-code table) whose message names the option, the value and why; they
+/// are refused before any solve. The exit codes of the other commands:
+/// `tests/pipeline.rs`.
+#[test]
+fn bad_pitch_options_are_usage_errors_naming_option_value_and_why() {
+    let dg = mesh("double-gate.toml");
+    // (options, what stderr must name: the option, the value, the reason)
+    let cases: [(&str, [&str; 3]); 8] = [
+        ("--pitch -5", ["--pitch", "'-5'", "> 0"]),
+        (
+            "--pitch 54 --spacer-nm 5,abc",
+            ["--spacer-nm", "'abc'", "not a number"],
+        ),
+        ("--pitch 54 --contact-nm=0", ["--contact-nm", "'0'", "> 0"]),
+        (
+            "--pitch 54 --spacer-nm 5 --contact-nm 9 --spacer-material SiCO",
+            ["--spacer-material", "'SiCO'", "did you mean \"SiOC\""],
+        ),
+        (
+            "--pitch 54 --spacer-nm 5 --contact-nm 9 --spacer-material=",
+            ["--spacer-material", "''", "empty"],
+        ),
+        (
+            "--pitch 54 --spacer-nm 5 --dibl-max -1",
+            ["--dibl-max", "'-1'", "> 0"],
+        ),
+        (
+            "--pitch 54 --spacer-nm 5",
+            ["--contact-nm", "geometry.contact_width_nm", "not given"],
+        ),
+        (
+            "--pitch 20 --spacer-nm 5,6 --contact-nm 10",
+            [
+                "--pitch 20",
+                "gate length 0.000 nm",
+                "no split leaves a positive gate length",
+            ],
+        ),
+    ];
+    for (options, needles) in cases {
+        let out = gatehold()
+            .args(["pitch", &dg, "--quiet"])
+            .args(options.split_whitespace())
+            .output()
+            .unwrap();
+        let err = String::from_utf8_lossy(&out.stderr);
+        assert_eq!(out.status.code(), Some(64), "pitch {options}: {err}");
+        for n in needles {
+            assert!(err.contains(n), "pitch {options}: no {n:?} in {err}");
+        }
+        assert!(out.stdout.is_empty(), "pitch {options}: nothing solved");
+    }
+}
