@@ -221,3 +221,49 @@ fn bad_pitch_options_are_usage_errors_naming_option_value_and_why() {
         assert!(out.stdout.is_empty(), "pitch {options}: nothing solved");
     }
 }
+
+/// Refusals print values computed from the input short: 21.3 - 20 - 2 x 0.6
+/// is 0.10000000000000075 in binary, 5 + 2 (0.1 + 1.3) is
+/// 7.800000000000001; the messages say 0.1 and 7.8 (the decimal sums, by hand).
+#[test]
+fn refusals_print_computed_values_short() {
+    let dir = tempfile::tempdir().unwrap();
+    let dg = std::fs::read_to_string(mesh("double-gate.toml")).unwrap();
+    let tg = String::from_utf8(
+        gatehold()
+            .args(["template", "tri-gate"])
+            .output()
+            .unwrap()
+            .stdout,
+    )
+    .unwrap();
+    let cases = [
+        (
+            dg.replace(
+                "source_drain_length_nm = 15",
+                "gate_pitch_nm = 21.3\nspacer_thickness_nm = 0.6",
+            ),
+            "`geometry.contact_width_nm` = 0.1: derived from geometry.gate_pitch_nm = 21.3",
+            "0.10000000000000075",
+        ),
+        (
+            tg.replace("body_thickness_nm = 8 ", "body_thickness_nm = 5 ")
+                .replace("# fin_pitch_nm = 40 ", "fin_pitch_nm = 7 ")
+                .replace("thickness_nm = 0.6", "thickness_nm = 0.1")
+                .replace("thickness_nm = 2.0", "thickness_nm = 1.3"),
+            "`geometry.fin_pitch_nm` = 7: narrower than the fin plus its gate stack (7.8 nm)",
+            "7.800000000000001",
+        ),
+    ];
+    for (k, (text, want, noise)) in cases.iter().enumerate() {
+        let p = dir.path().join(format!("d{k}.toml"));
+        std::fs::write(&p, text).unwrap();
+        let out = gatehold().arg("check").arg(&p).output().unwrap();
+        let err = String::from_utf8_lossy(&out.stderr);
+        assert_eq!(out.status.code(), Some(1), "case {k}: {err}");
+        assert!(
+            err.contains(want) && !err.contains(noise),
+            "case {k}: {err}"
+        );
+    }
+}
