@@ -220,6 +220,28 @@ fn bad_pitch_options_are_usage_errors_naming_option_value_and_why() {
         }
         assert!(out.stdout.is_empty(), "pitch {options}: nothing solved");
     }
+    // A spacer given by permittivity has no material name for the splits to
+    // default to: --spacer-material is then needed.
+    let dir = tempfile::tempdir().unwrap();
+    let p = dir.path().join("eps.toml");
+    let text = std::fs::read_to_string(&dg).unwrap();
+    std::fs::write(
+        &p,
+        text.replace("spacer = \"Si3N4\"", "spacer_permittivity = 3.0"),
+    )
+    .unwrap();
+    let out = gatehold()
+        .arg("pitch")
+        .arg(&p)
+        .args(["--pitch", "54", "--spacer-nm", "5", "--contact-nm", "9"])
+        .output()
+        .unwrap();
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert_eq!(out.status.code(), Some(64), "{err}");
+    assert!(
+        err.contains("--spacer-material: not given") && err.contains("spacer_permittivity = 3"),
+        "{err}"
+    );
 }
 
 /// Refusals print values computed from the input short: 21.3 - 20 - 2 x 0.6

@@ -141,10 +141,21 @@ pub fn pitch(a: &PitchArgs) -> Result<Exit> {
                     .spacer_thickness_nm,
             ],
         },
-        spacers: a
-            .spacer_material
-            .clone()
-            .unwrap_or_else(|| vec![s.geometry.spacer_material.clone()]),
+        spacers: match &a.spacer_material {
+            Some(v) => v.clone(),
+            // The splits name their spacer by material: a device file that
+            // gives geometry.spacer_permittivity instead has none to lend.
+            None if dielectric_permittivity(&s.geometry.spacer_material).is_none() => {
+                return Err(UsageError(format!(
+                    "--spacer-material: not given, and the device file {} gives geometry.spacer_permittivity = {} rather than a material (geometry.spacer); give --spacer-material NAME,... ({})",
+                    path.display(),
+                    s.geometry.spacer_eps,
+                    KNOWN_DIELECTRICS.join(", ")
+                ))
+                .into())
+            }
+            None => vec![s.geometry.spacer_material.clone()],
+        },
         contact_width_nm: match &a.contact_nm {
             Some(v) => v.clone(),
             None => vec![
