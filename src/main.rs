@@ -29,7 +29,7 @@ fn main() -> ExitCode {
         Ok(exit) => ExitCode::from(exit.code()),
         Err(e) => {
             eprintln!("error: {e:#}");
-            ExitCode::from(Exit::Failure.code())
+            ExitCode::from(Exit::of_error(&e).code())
         }
     }
 }

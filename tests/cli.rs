@@ -166,3 +166,126 @@ fn templates_parse_and_lambda_json_has_the_contract_keys() {
     assert_eq!(out.status.code(), Some(1));
     assert!(String::from_utf8_lossy(&out.stderr).contains("gate-all-around"));
 }
+
+/// Bad `gatehold pitch` options are usage errors (exit 64, the README's
+/// exit-code table) whose message names the option, the value and why; they
+/// are refused before any solve. The exit codes of the other commands:
+/// `tests/pipeline.rs`.
+#[test]
+fn bad_pitch_options_are_usage_errors_naming_option_value_and_why() {
+    let dg = mesh("double-gate.toml");
+    // (options, what stderr must name: the option, the value, the reason)
+    let cases: [(&str, [&str; 3]); 8] = [
+        ("--pitch -5", ["--pitch", "'-5'", "> 0"]),
+        (
+            "--pitch 54 --spacer-nm 5,abc",
+            ["--spacer-nm", "'abc'", "not a number"],
+        ),
+        ("--pitch 54 --contact-nm=0", ["--contact-nm", "'0'", "> 0"]),
+        (
+            "--pitch 54 --spacer-nm 5 --contact-nm 9 --spacer-material SiCO",
+            ["--spacer-material", "'SiCO'", "did you mean \"SiOC\""],
+        ),
+        (
+            "--pitch 54 --spacer-nm 5 --contact-nm 9 --spacer-material=",
+            ["--spacer-material", "''", "empty"],
+        ),
+        (
+            "--pitch 54 --spacer-nm 5 --dibl-max -1",
+            ["--dibl-max", "'-1'", "> 0"],
+        ),
+        (
+            "--pitch 54 --spacer-nm 5",
+            ["--contact-nm", "geometry.contact_width_nm", "not given"],
+        ),
+        (
+            "--pitch 20 --spacer-nm 5,6 --contact-nm 10",
+            [
+                "--pitch 20",
+                "gate length 0.000 nm",
+                "no split leaves a positive gate length",
+            ],
+        ),
+    ];
+    for (options, needles) in cases {
+        let out = gatehold()
+            .args(["pitch", &dg, "--quiet"])
+            .args(options.split_whitespace())
+            .output()
+            .unwrap();
+        let err = String::from_utf8_lossy(&out.stderr);
+        assert_eq!(out.status.code(), Some(64), "pitch {options}: {err}");
+        for n in needles {
+            assert!(err.contains(n), "pitch {options}: no {n:?} in {err}");
+        }
+        assert!(out.stdout.is_empty(), "pitch {options}: nothing solved");
+    }
+    // A spacer given by permittivity has no material name for the splits to
+    // default to: --spacer-material is then needed.
+    let dir = tempfile::tempdir().unwrap();
+    let p = dir.path().join("eps.toml");
+    let text = std::fs::read_to_string(&dg).unwrap();
+    std::fs::write(
+        &p,
+        text.replace("spacer = \"Si3N4\"", "spacer_permittivity = 3.0"),
+    )
+    .unwrap();
+    let out = gatehold()
+        .arg("pitch")
+        .arg(&p)
+        .args(["--pitch", "54", "--spacer-nm", "5", "--contact-nm", "9"])
+        .output()
+        .unwrap();
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert_eq!(out.status.code(), Some(64), "{err}");
+    assert!(
+        err.contains("--spacer-material: not given") && err.contains("spacer_permittivity = 3"),
+        "{err}"
+    );
+}
+
+/// Refusals print values computed from the input short: 21.3 - 20 - 2 x 0.6
+/// is 0.10000000000000075 in binary, 5 + 2 (0.1 + 1.3) is
+/// 7.800000000000001; the messages say 0.1 and 7.8 (the decimal sums, by hand).
+#[test]
+fn refusals_print_computed_values_short() {
+    let dir = tempfile::tempdir().unwrap();
+    let dg = std::fs::read_to_string(mesh("double-gate.toml")).unwrap();
+    let tg = String::from_utf8(
+        gatehold()
+            .args(["template", "tri-gate"])
+            .output()
+            .unwrap()
+            .stdout,
+    )
+    .unwrap();
+    let cases = [
+        (
+            dg.replace(
+                "source_drain_length_nm = 15",
+                "gate_pitch_nm = 21.3\nspacer_thickness_nm = 0.6",
+            ),
+            "`geometry.contact_width_nm` = 0.1: derived from geometry.gate_pitch_nm = 21.3",
+            "0.10000000000000075",
+        ),
+        (
+            tg.replace("body_thickness_nm = 8 ", "body_thickness_nm = 5 ")
+                .replace("# fin_pitch_nm = 40 ", "fin_pitch_nm = 7 ")
+                .replace("thickness_nm = 0.6", "thickness_nm = 0.1")
+                .replace("thickness_nm = 2.0", "thickness_nm = 1.3"),
+            "`geometry.fin_pitch_nm` = 7: narrower than the fin plus its gate stack (7.8 nm)",
+            "7.800000000000001",
+        ),
+    ];
+    for (k, (text, want, noise)) in cases.iter().enumerate() {
+        let p = dir.path().join(format!("d{k}.toml"));
+        std::fs::write(&p, text).unwrap();
+        let out = gatehold().arg("check").arg(&p).output().unwrap();
+        let err = String::from_utf8_lossy(&out.stderr);
+        assert_eq!(out.status.code(), Some(1), "case {k}: {err}");
+        assert!(
+            err.contains(want) && !err.contains(noise),
+            "case {k}: {err}"
+        );
+    }
+}

@@ -357,6 +357,12 @@ fn every_command_follows_the_exit_code_table() {
     .unwrap();
     std::fs::write(d.join("not.h5"), "not an HDF5 file").unwrap();
     let p = |name: &str| d.join(name).display().to_string();
+    // `gatehold pitch DEVICE` and the options (split at spaces).
+    let pitch = |device: &str, options: &str| -> Vec<String> {
+        let mut v = vec!["pitch".to_string(), p(device)];
+        v.extend(options.split_whitespace().map(String::from));
+        v
+    };
     let cases: Vec<(Vec<String>, u8)> = vec![
         // run
         (vec!["run".into(), "--quiet".into(), p("ok.toml")], 0),
@@ -503,6 +509,45 @@ fn every_command_follows_the_exit_code_table() {
             1,
         ),
         (vec!["demo".into(), "--jobs".into(), "many".into()], 64),
+        // pitch: a bad option value, a missing option, or options that leave
+        // no gate are usage errors (64); a bad device file is bad input (1).
+        (
+            pitch(
+                "ok.toml",
+                "--quiet --pitch 60 --spacer-nm 8 --contact-nm 12",
+            ),
+            0,
+        ),
+        (
+            pitch("bad.toml", "--pitch 60 --spacer-nm 8 --contact-nm 12"),
+            1,
+        ),
+        (pitch("ok.toml", "--pitch -5"), 64),
+        (pitch("ok.toml", "--pitch=0"), 64),
+        (pitch("ok.toml", "--pitch 60 --spacer-nm abc"), 64),
+        (
+            pitch("ok.toml", "--pitch 60 --spacer-nm= --contact-nm 12"),
+            64,
+        ),
+        (
+            pitch(
+                "ok.toml",
+                "--pitch 60 --spacer-nm 8 --contact-nm 12 --spacer-material xx",
+            ),
+            64,
+        ),
+        (
+            pitch(
+                "ok.toml",
+                "--pitch 60 --spacer-nm 8 --contact-nm 12 --spacer-material=",
+            ),
+            64,
+        ),
+        (pitch("ok.toml", "--pitch 60 --spacer-nm 8"), 64), // no contact width anywhere
+        (
+            pitch("ok.toml", "--pitch 20 --spacer-nm 5 --contact-nm 12"),
+            64,
+        ), // no gate left
         // template
         (vec!["template".into(), "double-gate".into()], 0),
         (vec!["template".into(), "quad-gate".into()], 1),

@@ -26,6 +26,16 @@ impl Exit {
         }
     }
 
+    /// The code of a command that failed with `e`: [`Exit::Usage`] when the
+    /// error is a [`UsageError`], else [`Exit::Failure`].
+    pub fn of_error(e: &anyhow::Error) -> Exit {
+        if e.downcast_ref::<UsageError>().is_some() {
+            Exit::Usage
+        } else {
+            Exit::Failure
+        }
+    }
+
     /// Done when nothing is missing, else Missing.
     pub fn missing_if(missing: bool) -> Exit {
         if missing {
@@ -35,3 +45,11 @@ impl Exit {
         }
     }
 }
+
+/// A command-line error found after the arguments parsed (an option this
+/// input needs is missing, or the options contradict each other): the
+/// command exits 64 like any other usage error. The message names the
+/// option, the value and why.
+#[derive(Debug, Clone, PartialEq, Eq, thiserror::Error)]
+#[error("{0}")]
+pub struct UsageError(pub String);

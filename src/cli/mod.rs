@@ -131,6 +131,22 @@ pub fn capped_jobs(jobs: usize) -> usize {
     }
 }
 
+/// A note on stderr when the sweep file at `path` was written without
+/// checksums (before gatehold stored them): it reads as before, but damage
+/// to its numbers cannot be detected.
+pub fn note_unchecksummed(path: &std::path::Path) {
+    if let Ok(unchecked) = gatehold::io::hdf5::unchecksummed_datasets(path) {
+        if !unchecked.is_empty() {
+            eprintln!(
+                "note: {}: {} dataset(s) carry no checksum (written by an earlier gatehold), so damage to their numbers cannot be detected; `gatehold merge {} --out NEW.h5` rewrites it with checksums",
+                path.display(),
+                unchecked.len(),
+                path.display()
+            );
+        }
+    }
+}
+
 /// Runs the parsed command.
 pub fn run(cli: Cli) -> anyhow::Result<Exit> {
     match cli.command {

@@ -7,11 +7,12 @@ use std::path::{Path, PathBuf};
 use anyhow::{Context, Result};
 use clap::Args;
 
-use super::exit::Exit;
+use super::exit::{Exit, UsageError};
 use super::progress::Dots;
-use gatehold::device::{parse_table, read_input_file, scenario_from_table, DeviceError};
-use gatehold::evaluate::pitch::{run_pitch, split_table, PitchSpec, PitchStudy, Split};
+use gatehold::device::{closest, parse_table, read_input_file, scenario_from_table, DeviceError};
+use gatehold::evaluate::pitch::{run_pitch, split_table, splits, PitchSpec, PitchStudy, Split};
 use gatehold::evaluate::{evaluate_alone, Criteria};
+use gatehold::physics::{dielectric_permittivity, KNOWN_DIELECTRICS};
 use gatehold::progress::Silent;
 use gatehold::render::pitch::{pitch_json, pitch_text};
 
@@ -25,22 +26,22 @@ pub struct PitchArgs {
     /// Planar device file (TOML): everything but the split keys.
     pub device: PathBuf,
     /// Contacted gate pitch, nm: L_g + 2 t_spacer + W_contact.
-    #[arg(long, value_name = "NM")]
+    #[arg(long, value_name = "NM", allow_negative_numbers = true, value_parser = positive_nm)]
     pub pitch: f64,
     /// Spacer thicknesses, nm, comma separated (default: the device file's geometry.spacer_thickness_nm).
-    #[arg(long, value_delimiter = ',', value_name = "NM,NM,...")]
+    #[arg(long, value_delimiter = ',', value_name = "NM,NM,...", allow_negative_numbers = true, value_parser = positive_nm)]
     pub spacer_nm: Option<Vec<f64>>,
     /// Spacer materials, comma separated, e.g. Si3N4,SiOC,air (default: the device file's geometry.spacer).
-    #[arg(long, value_delimiter = ',', value_name = "NAME,NAME,...")]
+    #[arg(long, value_delimiter = ',', value_name = "NAME,NAME,...", value_parser = spacer_material)]
     pub spacer_material: Option<Vec<String>>,
     /// Contact widths, nm, comma separated (default: the device file's geometry.contact_width_nm).
-    #[arg(long, value_delimiter = ',', value_name = "NM,NM,...")]
+    #[arg(long, value_delimiter = ',', value_name = "NM,NM,...", allow_negative_numbers = true, value_parser = positive_nm)]
     pub contact_nm: Option<Vec<f64>>,
     /// Screening target on DIBL, mV/V (default 100; common practice, not a standard).
-    #[arg(long, value_name = "MV_PER_V")]
+    #[arg(long, value_name = "MV_PER_V", allow_negative_numbers = true, value_parser = positive_target)]
     pub dibl_max: Option<f64>,
     /// Screening target on the larger SS, mV/dec (default 80; common practice, not a standard).
-    #[arg(long, value_name = "MV_PER_DEC")]
+    #[arg(long, value_name = "MV_PER_DEC", allow_negative_numbers = true, value_parser = positive_target)]
     pub ss_max: Option<f64>,
     /// Print one JSON object (`rows`, `best`) instead of the table.
     #[arg(long)]
@@ -56,8 +57,68 @@ pub struct PitchArgs {
     pub quiet: bool,
 }
 
-fn missing(option: &str, key: &str) -> anyhow::Error {
-    anyhow::anyhow!("{option}: not given and the device file has no {key} to default to")
+/// `--pitch`, `--spacer-nm`, `--contact-nm`: a finite length > 0, nm. The
+/// argument parser calls it, so a bad value is a usage error (exit 64) and
+/// clap's message names the option and the value.
+fn positive_nm(v: &str) -> Result<f64, String> {
+    match v.trim().parse::<f64>() {
+        Ok(x) if x.is_finite() && x > 0.0 => Ok(x),
+        Ok(_) => Err("must be a finite length > 0 (nm)".into()),
+        Err(_) if v.trim().is_empty() => Err(
+            "empty: give a length in nm (lists are comma separated, without empty items)".into(),
+        ),
+        Err(_) => Err("not a number: give a length in nm".into()),
+    }
+}
+
+/// `--dibl-max`, `--ss-max`: a finite number > 0 (a usage error otherwise).
+fn positive_target(v: &str) -> Result<f64, String> {
+    match v.trim().parse::<f64>() {
+        Ok(x) if x.is_finite() && x > 0.0 => Ok(x),
+        Ok(_) => Err("must be a finite number > 0".into()),
+        Err(_) => Err("not a number".into()),
+    }
+}
+
+/// `--spacer-material`: a dielectric the device file accepts as
+/// `geometry.spacer` (a usage error otherwise, with the closest name).
+fn spacer_material(v: &str) -> Result<String, String> {
+    if dielectric_permittivity(v).is_some() {
+        return Ok(v.to_string());
+    }
+    let hint = closest(v, KNOWN_DIELECTRICS.iter().copied())
+        .map(|c| format!(" (did you mean \"{c}\"?)"))
+        .unwrap_or_default();
+    let what = if v.trim().is_empty() {
+        "empty material name".to_string()
+    } else {
+        format!("unknown spacer material{hint}")
+    };
+    Err(format!("{what}; known: {}", KNOWN_DIELECTRICS.join(", ")))
+}
+
+fn missing(option: &str, key: &str, path: &Path) -> UsageError {
+    UsageError(format!(
+        "{option}: not given, and the device file {} has no {key} to default to (give {option})",
+        path.display()
+    ))
+}
+
+/// A list option's value given twice would solve the same splits twice: a usage error.
+fn no_repeats<T: PartialEq + std::fmt::Display>(
+    option: &str,
+    list: &[T],
+) -> Result<(), UsageError> {
+    match list
+        .iter()
+        .enumerate()
+        .find(|(k, v)| list[..*k].contains(v))
+    {
+        Some((_, v)) => Err(UsageError(format!(
+            "{option}: {v} is given twice (each value once)"
+        ))),
+        None => Ok(()),
+    }
 }
 
 /// Runs `gatehold pitch`.
@@ -76,27 +137,45 @@ pub fn pitch(a: &PitchArgs) -> Result<Exit> {
             Some(v) => v.clone(),
             None => vec![
                 contacts
-                    .ok_or_else(|| missing("--spacer-nm", "geometry.spacer_thickness_nm"))?
+                    .ok_or_else(|| missing("--spacer-nm", "geometry.spacer_thickness_nm", path))?
                     .spacer_thickness_nm,
             ],
         },
-        spacers: a
-            .spacer_material
-            .clone()
-            .unwrap_or_else(|| vec![s.geometry.spacer_material.clone()]),
+        spacers: match &a.spacer_material {
+            Some(v) => v.clone(),
+            // The splits name their spacer by material: a device file that
+            // gives geometry.spacer_permittivity instead has none to lend.
+            None if dielectric_permittivity(&s.geometry.spacer_material).is_none() => {
+                return Err(UsageError(format!(
+                    "--spacer-material: not given, and the device file {} gives geometry.spacer_permittivity = {} rather than a material (geometry.spacer); give --spacer-material NAME,... ({})",
+                    path.display(),
+                    s.geometry.spacer_eps,
+                    KNOWN_DIELECTRICS.join(", ")
+                ))
+                .into())
+            }
+            None => vec![s.geometry.spacer_material.clone()],
+        },
         contact_width_nm: match &a.contact_nm {
             Some(v) => v.clone(),
             None => vec![
                 contacts
-                    .ok_or_else(|| missing("--contact-nm", "geometry.contact_width_nm"))?
+                    .ok_or_else(|| missing("--contact-nm", "geometry.contact_width_nm", path))?
                     .contact_width_nm,
             ],
         },
     };
-    for (option, v) in [("--dibl-max", a.dibl_max), ("--ss-max", a.ss_max)] {
-        if let Some(v) = v.filter(|v| !(v.is_finite() && *v > 0.0)) {
-            anyhow::bail!("{option} = {v}: must be a finite number > 0");
-        }
+    no_repeats("--spacer-nm", &spec.spacer_thickness_nm)?;
+    no_repeats("--contact-nm", &spec.contact_width_nm)?;
+    no_repeats("--spacer-material", &spec.spacers)?;
+    // Options that leave no gate at all are the command line's fault alone.
+    let (todo, skipped) = splits(&spec);
+    if let (true, Some((_, why))) = (todo.is_empty(), skipped.first()) {
+        return Err(UsageError(format!(
+            "--pitch {}: no split leaves a positive gate length ({why}); give a larger --pitch or smaller --spacer-nm / --contact-nm",
+            spec.pitch_nm
+        ))
+        .into());
     }
     let criteria = Criteria {
         dibl_max_mv_per_v: Some(a.dibl_max.unwrap_or(DIBL_MAX_MV_PER_V)),

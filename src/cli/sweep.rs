@@ -202,6 +202,7 @@ pub fn plot(args: &PlotArgs) -> anyhow::Result<Exit> {
         );
     }
     let f = gatehold::io::hdf5::read_sweep(&args.file)?;
+    super::note_unchecksummed(&args.file);
     // A stored plan whose [criteria] this version cannot read (written by a
     // newer one) leaves the lines to the options, with a warning.
     let criteria = gatehold::plot::plan_criteria(&f).unwrap_or_else(|e| {

@@ -6,9 +6,11 @@
 //! every value into a [`Scenario`]. Errors name the key, the value and why.
 
 mod scenario;
+mod show;
 pub mod template;
 
 pub use scenario::*;
+pub use show::show_number;
 
 use crate::physics::{dielectric_permittivity, CM2_TO_NM2, KNOWN_DIELECTRICS, PER_CM3_TO_PER_NM3};
 use toml::Value;
@@ -38,8 +40,9 @@ pub enum DeviceError {
 fn invalid(key: &str, value: impl std::fmt::Display, reason: impl Into<String>) -> DeviceError {
     DeviceError::Invalid {
         key: key.into(),
-        value: value.to_string(),
-        reason: reason.into(),
+        // Computed values print short (0.3, not 0.30000000000000004).
+        value: show::tidy_numbers(&value.to_string()),
+        reason: show::tidy_numbers(&reason.into()),
     }
 }
 
@@ -283,16 +286,6 @@ impl<'a> Reader<'a> {
             key: key.into(),
             reason: why.into(),
         })
-    }
-}
-
-/// A number as an error message shows it: plain digits in the usual range,
-/// scientific notation beyond (1e-300 prints as `1e-300`, not 300 zeros).
-pub fn show_number(x: f64) -> String {
-    if x != 0.0 && x.is_finite() && !(1e-4..1e7).contains(&x.abs()) {
-        format!("{x:e}")
-    } else {
-        format!("{x}")
     }
 }
 

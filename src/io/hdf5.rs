@@ -45,8 +45,39 @@ fn h5err(path: &Path, object: &str, e: impl std::fmt::Display) -> IoError {
     }
 }
 
+/// A read error on `object`: [`IoError::Damaged`] when a checksum does not
+/// match, else [`IoError::Hdf5`].
+pub fn read_error(path: &Path, object: &str, e: hdf5_pure::Error) -> IoError {
+    use hdf5_pure::FormatError as F;
+    match e {
+        hdf5_pure::Error::Format(
+            f @ (F::Fletcher32Mismatch { .. } | F::ChecksumMismatch { .. }),
+        ) => IoError::Damaged {
+            path: path.display().to_string(),
+            object: object.to_string(),
+            reason: f.to_string(),
+        },
+        e => h5err(path, object, e),
+    }
+}
+
 fn chunk(n: usize, max: usize) -> u64 {
     n.clamp(16, max) as u64
+}
+
+/// HDF5 filter id of the fletcher32 checksum (the HDF5 specification's
+/// filter pipeline message; h5py and libhdf5 verify it on every read).
+pub const FLETCHER32: u16 = 3;
+
+/// Chunked storage with HDF5's fletcher32 filter: each chunk carries a
+/// checksum of its stored bytes that every reader (hdf5-pure, h5py, libhdf5)
+/// verifies on read, so a flipped bit in a number is an error, not a value.
+/// Every dataset of a sweep file is written this way.
+pub fn checksummed<'a>(
+    ds: &'a mut hdf5_pure::DatasetBuilder,
+    chunks: &[u64],
+) -> &'a mut hdf5_pure::DatasetBuilder {
+    ds.with_chunks(chunks).with_fletcher32()
 }
 
 /// Kinds of column data under `points/`.
@@ -275,8 +306,8 @@ pub fn to_bytes_with(f: &SweepFile, shortest: Option<&ShortestTable>) -> Result<
             }
         }
         ds.with_shape(&[n as u64])
-            .with_maxshape(&[MaxExtent::Unlimited])
-            .with_chunks(&[chunk(n, 1024)]);
+            .with_maxshape(&[MaxExtent::Unlimited]);
+        checksummed(ds, &[chunk(n, 1024)]);
         ds.set_attr("units", vs(units));
         ds.set_attr("role", vs(role));
         ds.set_attr("description", vs(description));
@@ -314,19 +345,19 @@ pub fn to_bytes_with(f: &SweepFile, shortest: Option<&ShortestTable>) -> Result<
             &is,
         ),
     ] {
-        g.create_dataset(name)
-            .with_f64_data(data)
+        let ds = g.create_dataset(name);
+        ds.with_f64_data(data)
             .with_shape(&[total as u64])
-            .with_maxshape(&[MaxExtent::Unlimited])
-            .with_chunks(&[chunk(total, 4096)])
+            .with_maxshape(&[MaxExtent::Unlimited]);
+        checksummed(ds, &[chunk(total, 4096)])
             .set_attr("units", vs(units))
             .set_attr("description", vs(description));
     }
-    g.create_dataset("point_index")
-        .with_i64_data(&pi)
+    let ds = g.create_dataset("point_index");
+    ds.with_i64_data(&pi)
         .with_shape(&[total as u64])
-        .with_maxshape(&[MaxExtent::Unlimited])
-        .with_chunks(&[chunk(total, 4096)])
+        .with_maxshape(&[MaxExtent::Unlimited]);
+    checksummed(ds, &[chunk(total, 4096)])
         .set_attr("units", vs("1"))
         .set_attr(
             "description",
@@ -358,7 +389,7 @@ pub fn map_name(index: usize) -> String {
 
 fn write_map(g: &mut hdf5_pure::GroupBuilder, m: &MapData) {
     let (nx, ny) = (m.nx() as u64, m.ny() as u64);
-    g.create_dataset("x_nm")
+    checksummed(g.create_dataset("x_nm"), &[nx])
         .with_f64_data(&m.x_nm)
         .with_shape(&[nx])
         .set_attr("units", vs("nm"))
@@ -366,7 +397,7 @@ fn write_map(g: &mut hdf5_pure::GroupBuilder, m: &MapData) {
             "description",
             vs("mesh lines along the channel, from the source contact"),
         );
-    g.create_dataset("y_nm")
+    checksummed(g.create_dataset("y_nm"), &[ny])
         .with_f64_data(&m.y_nm)
         .with_shape(&[ny])
         .set_attr("units", vs("nm"))
@@ -376,7 +407,7 @@ fn write_map(g: &mut hdf5_pure::GroupBuilder, m: &MapData) {
         );
     for (name, psi) in [("psi_lin_V", &m.psi_lin_v), ("psi_sat_V", &m.psi_sat_v)] {
         if let Some(p) = psi {
-            g.create_dataset(name)
+            checksummed(g.create_dataset(name), &[ny, nx])
                 .with_f64_data(p)
                 .with_shape(&[ny, nx])
                 .set_attr("units", vs("V"))
@@ -386,7 +417,7 @@ fn write_map(g: &mut hdf5_pure::GroupBuilder, m: &MapData) {
                 );
         }
     }
-    g.create_dataset("material_code")
+    checksummed(g.create_dataset("material_code"), &[ny - 1, nx - 1])
         .with_i64_data(&m.material)
         .with_shape(&[ny - 1, nx - 1])
         .set_attr(
@@ -397,7 +428,7 @@ fn write_map(g: &mut hdf5_pure::GroupBuilder, m: &MapData) {
             "description",
             vs("material of each mesh cell: 0 silicon, 1 dielectric, 2+k metal electrode k"),
         );
-    g.create_dataset("eps_r")
+    checksummed(g.create_dataset("eps_r"), &[ny - 1, nx - 1])
         .with_f64_data(&m.eps_r)
         .with_shape(&[ny - 1, nx - 1])
         .set_attr("units", vs("1"))
@@ -481,6 +512,48 @@ fn finite(x: f64) -> Option<f64> {
     x.is_finite().then_some(x)
 }
 
+/// Every dataset of the sweep file at `path` (full paths such as
+/// `points/dibl_mV_per_V`, sorted) that carries no fletcher32 checksum: all
+/// of them in files written before checksums were added (format 1, and
+/// format 2 before this version), none in a file this version wrote. Such a
+/// file reads as before, but damage to its numbers cannot be detected;
+/// rewriting it (`--resume`, `merge`) adds the checksums.
+pub fn unchecksummed_datasets(path: &Path) -> Result<Vec<String>, IoError> {
+    let file = File::open(path).map_err(|e| IoError::File {
+        path: path.display().to_string(),
+        reason: e.to_string(),
+    })?;
+    let mut out = Vec::new();
+    let mut groups = vec![String::new()];
+    while let Some(g) = groups.pop() {
+        let group = if g.is_empty() {
+            file.root()
+        } else {
+            file.group(&g).map_err(|e| read_error(path, &g, e))?
+        };
+        let full = |name: &str| {
+            let leaf = name.rsplit('/').next().unwrap_or(name);
+            if g.is_empty() {
+                leaf.to_string()
+            } else {
+                format!("{g}/{leaf}")
+            }
+        };
+        for d in group.datasets().map_err(|e| read_error(path, &g, e))? {
+            let d = full(&d);
+            let ds = file.dataset(&d).map_err(|e| read_error(path, &d, e))?;
+            if !ds.filters().contains(&FLETCHER32) {
+                out.push(d);
+            }
+        }
+        for sub in group.groups().map_err(|e| read_error(path, &g, e))? {
+            groups.push(full(&sub));
+        }
+    }
+    out.sort();
+    Ok(out)
+}
+
 /// Reads a sweep file back (any file this module wrote, partial or complete).
 pub fn read_sweep(path: &Path) -> Result<SweepFile, IoError> {
     let meta = std::fs::metadata(path).map_err(|e| IoError::File {
@@ -497,7 +570,7 @@ pub fn read_sweep(path: &Path) -> Result<SweepFile, IoError> {
         path: path.display().to_string(),
         reason: e.to_string(),
     })?;
-    let root = file.root().attrs().map_err(|e| h5err(path, "/", e))?;
+    let root = file.root().attrs().map_err(|e| read_error(path, "/", e))?;
     let not = |reason: String| IoError::NotSweep {
         path: path.display().to_string(),
         reason,
@@ -543,13 +616,13 @@ pub fn read_sweep(path: &Path) -> Result<SweepFile, IoError> {
     let figures: Vec<String> = serde_json::from_str(&req("figure_columns")?)
         .map_err(|e| not(format!("figure_columns: {e}")))?;
 
-    let ds = |name: &str| file.dataset(name).map_err(|e| h5err(path, name, e));
-    let f64s = |name: &str| ds(name)?.read_f64().map_err(|e| h5err(path, name, e));
-    let i64s = |name: &str| ds(name)?.read_i64().map_err(|e| h5err(path, name, e));
+    let ds = |name: &str| file.dataset(name).map_err(|e| read_error(path, name, e));
+    let f64s = |name: &str| ds(name)?.read_f64().map_err(|e| read_error(path, name, e));
+    let i64s = |name: &str| ds(name)?.read_i64().map_err(|e| read_error(path, name, e));
     let strs = |name: &str| -> Result<Vec<String>, IoError> {
         Ok(ds(name)?
             .read_string()
-            .map_err(|e| h5err(path, name, e))?
+            .map_err(|e| read_error(path, name, e))?
             .into_iter()
             .map(|s| s.trim_end_matches(['\0', ' ']).to_string())
             .collect())
@@ -560,12 +633,15 @@ pub fn read_sweep(path: &Path) -> Result<SweepFile, IoError> {
     let mut axis_vals: Vec<Vec<AxisValue>> = Vec::new();
     for key in &axis_keys {
         let name = format!("points/{key}");
-        let (numeric, vals) = match ds(&name)?.read_f64() {
-            Ok(v) => (true, v.into_iter().map(AxisValue::Number).collect()),
-            Err(_) => (
-                false,
-                strs(&name)?.into_iter().map(AxisValue::Text).collect(),
-            ),
+        // Numeric or text by the stored type (a read error is never taken for text).
+        let numeric = matches!(
+            ds(&name)?.dtype().map_err(|e| read_error(path, &name, e))?,
+            hdf5_pure::DType::F64 | hdf5_pure::DType::F32
+        );
+        let vals = if numeric {
+            f64s(&name)?.into_iter().map(AxisValue::Number).collect()
+        } else {
+            strs(&name)?.into_iter().map(AxisValue::Text).collect()
         };
         axes.push(AxisColumn {
             key: key.clone(),
@@ -652,7 +728,7 @@ pub fn read_sweep(path: &Path) -> Result<SweepFile, IoError> {
     let map_groups: Vec<String> = file
         .group("maps")
         .and_then(|g| g.groups())
-        .map_err(|e| h5err(path, "maps", e))?;
+        .map_err(|e| read_error(path, "maps", e))?;
     let mut rows = Vec::with_capacity(n);
     for k in 0..n {
         let idx = index[k] as usize;
@@ -709,21 +785,24 @@ fn read_map(file: &File, path: &Path, g: &str) -> Result<MapData, IoError> {
     let f = |name: &str| {
         ds(name)
             .and_then(|d| d.read_f64())
-            .map_err(|e| h5err(path, &format!("{g}/{name}"), e))
+            .map_err(|e| read_error(path, &format!("{g}/{name}"), e))
     };
+    // A potential is absent when that drain bias did not converge; when
+    // present, a read error is an error.
+    let optional = |name: &str| ds(name).ok().map(|_| f(name)).transpose();
     let attrs = file
         .group(g)
         .and_then(|x| x.attrs())
-        .map_err(|e| h5err(path, g, e))?;
+        .map_err(|e| read_error(path, g, e))?;
     let a = |name: &str| attr_f64(&attrs, name).unwrap_or(f64::NAN);
     Ok(MapData {
         x_nm: f("x_nm")?,
         y_nm: f("y_nm")?,
-        psi_lin_v: ds("psi_lin_V").ok().and_then(|d| d.read_f64().ok()),
-        psi_sat_v: ds("psi_sat_V").ok().and_then(|d| d.read_f64().ok()),
+        psi_lin_v: optional("psi_lin_V")?,
+        psi_sat_v: optional("psi_sat_V")?,
         material: ds("material_code")
             .and_then(|d| d.read_i64())
-            .map_err(|e| h5err(path, &format!("{g}/material_code"), e))?,
+            .map_err(|e| read_error(path, &format!("{g}/material_code"), e))?,
         eps_r: f("eps_r")?,
         eg_ev: a("eg_eV"),
         polarity: if a("carrier_sign") < 0.0 {

@@ -51,6 +51,15 @@ pub enum IoError {
     },
     #[error("{path}: not a gatehold sweep file: {reason}")]
     NotSweep { path: String, reason: String },
+    /// A stored checksum (fletcher32 of a dataset's chunk, or the CRC of an
+    /// HDF5 metadata block) does not match the bytes read: the file changed
+    /// after it was written.
+    #[error("{path}: `{object}` is damaged: its bytes no longer match the checksum stored with them ({reason}); the file changed after it was written (disk, copy or transfer): use a good copy, or rerun the sweep")]
+    Damaged {
+        path: String,
+        object: String,
+        reason: String,
+    },
 }
 
 /// One value an axis takes.

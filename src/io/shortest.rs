@@ -92,13 +92,17 @@ pub fn add_group(fb: &mut FileBuilder, t: &ShortestTable) -> Result<(), String> 
     for (name, units, description, read) in NUMBERS {
         let v: Vec<f64> = t.rows.iter().map(|r| read(r).unwrap_or(f64::NAN)).collect();
         let ds = g.create_dataset(name);
-        ds.with_f64_data(&v).with_shape(&[n as u64]);
+        super::hdf5::checksummed(ds, &[n as u64])
+            .with_f64_data(&v)
+            .with_shape(&[n as u64]);
         ds.set_attr("units", vs(units));
         ds.set_attr("description", vs(description));
     }
     let failed: Vec<i64> = t.rows.iter().map(|r| r.failed_points as i64).collect();
     let ds = g.create_dataset("failed_points");
-    ds.with_i64_data(&failed).with_shape(&[n as u64]);
+    super::hdf5::checksummed(ds, &[n as u64])
+        .with_i64_data(&failed)
+        .with_shape(&[n as u64]);
     ds.set_attr("units", vs("1"));
     ds.set_attr(
         "description",
@@ -117,7 +121,7 @@ pub fn add_group(fb: &mut FileBuilder, t: &ShortestTable) -> Result<(), String> 
         let ds = g.create_dataset(name);
         ds.with_ascii_strings_sized(&v, w as u32)
             .map_err(|e| format!("shortest/{name}: {e}"))?;
-        ds.with_shape(&[n as u64]);
+        super::hdf5::checksummed(ds, &[n as u64]).with_shape(&[n as u64]);
         ds.set_attr("units", vs("1"));
         ds.set_attr("description", vs(description));
     }
@@ -127,19 +131,22 @@ pub fn add_group(fb: &mut FileBuilder, t: &ShortestTable) -> Result<(), String> 
 
 /// Reads the `shortest` group back (None when the file has none).
 pub fn read_shortest(path: &Path) -> Result<Option<ShortestTable>, IoError> {
-    let err = |object: &str, e: &dyn std::fmt::Display| IoError::Hdf5 {
-        path: path.display().to_string(),
-        object: object.to_string(),
-        reason: e.to_string(),
-    };
+    let err = |object: &str, e: hdf5_pure::Error| super::hdf5::read_error(path, object, e);
     let file = File::open(path).map_err(|e| IoError::File {
         path: path.display().to_string(),
         reason: e.to_string(),
     })?;
-    let Ok(group) = file.group("shortest") else {
-        return Ok(None);
+    let group = match file.group("shortest") {
+        Ok(g) => g,
+        // No such group; a damaged header is an error, not "none".
+        Err(e) => {
+            return match err("shortest", e) {
+                d @ IoError::Damaged { .. } => Err(d),
+                _ => Ok(None),
+            }
+        }
     };
-    let attrs = group.attrs().map_err(|e| err("shortest", &e))?;
+    let attrs = group.attrs().map_err(|e| err("shortest", e))?;
     let num = |name: &str| match attrs.get(name) {
         Some(AttrValue::F64(x)) if x.is_finite() => Some(*x),
         _ => None,
@@ -148,14 +155,14 @@ pub fn read_shortest(path: &Path) -> Result<Option<ShortestTable>, IoError> {
         let o = format!("shortest/{name}");
         file.dataset(&o)
             .and_then(|d| d.read_f64())
-            .map_err(|e| err(&o, &e))
+            .map_err(|e| err(&o, e))
     };
     let strs = |name: &str| -> Result<Vec<String>, IoError> {
         let o = format!("shortest/{name}");
         Ok(file
             .dataset(&o)
             .and_then(|d| d.read_string())
-            .map_err(|e| err(&o, &e))?
+            .map_err(|e| err(&o, e))?
             .into_iter()
             .map(|s| s.trim_end_matches(['\0', ' ']).to_string())
             .collect())
@@ -170,12 +177,30 @@ pub fn read_shortest(path: &Path) -> Result<Option<ShortestTable>, IoError> {
     let failed = file
         .dataset(o)
         .and_then(|d| d.read_i64())
-        .map_err(|e| err(o, &e))?;
+        .map_err(|e| err(o, e))?;
     let c: Vec<Vec<Option<f64>>> = NUMBERS
         .iter()
         .map(|(name, ..)| col(name))
         .collect::<Result<_, _>>()?;
-    let rows = (0..series.len())
+    let n = series.len();
+    let lengths = [("kind", kind.len()), ("limiting_criterion", limiting.len())]
+        .into_iter()
+        .chain([("notes", notes.len()), ("failed_points", failed.len())])
+        .chain(
+            NUMBERS
+                .iter()
+                .zip(&c)
+                .map(|((name, ..), v)| (*name, v.len())),
+        );
+    for (name, len) in lengths {
+        if len != n {
+            return Err(IoError::NotSweep {
+                path: path.display().to_string(),
+                reason: format!("shortest/{name} holds {len} elements, shortest/series {n}"),
+            });
+        }
+    }
+    let rows = (0..n)
         .map(|k| ShortestRow {
             series: series[k].clone(),
             gate_length_nm: c[0][k],
