@@ -5,6 +5,7 @@
 
 use gatehold::device::{parse_device, Polarity, Scenario};
 use gatehold::discretize::{CellKind, NodeKind, Problem};
+use gatehold::extract::electrical_length::electrical_length;
 use gatehold::extract::{band_edge_ev, barrier, extract_long_channel, ramp_figures};
 use gatehold::mesh::Line;
 use gatehold::physics::{Silicon, EPS_SI, EPS_SIO2, Q_OVER_EPS0_V_NM};
@@ -109,6 +110,19 @@ fn extruded_planar_sections_reproduce_the_2d_solve() {
         }
         println!("{arch}: largest |psi_3d - psi_2d| = {worst:.3e} V");
         assert!(worst < 1e-6, "{arch}: {worst}");
+        // The roll-off split's barrier-top density is per nm of width in both
+        // (docs/electrical-length.md): the extruded section's cross-section
+        // integral over its 3 nm depth is divided by that depth.
+        let (e2, e3) = (
+            electrical_length(p2, &psi2, s.polarity),
+            electrical_length(p3, &psi3, s.polarity),
+        );
+        println!(
+            "{arch}: N_top {:.6e} (2D) vs {:.6e} (extruded) nm^-2; L_elec {:.4} vs {:.4} nm",
+            e2.n_top_per_nm2, e3.n_top_per_nm2, e2.l_elec_nm, e3.l_elec_nm
+        );
+        assert!((e3.n_top_per_nm2 / e2.n_top_per_nm2 - 1.0).abs() < 1e-4);
+        assert!((e3.l_elec_nm - e2.l_elec_nm).abs() < 1e-4);
         let target = s.extraction.current_criterion_a / (s.geometry.gate_length_nm * 1e-3);
         for vds in [s.bias.vds_lin_v, s.bias.vds_sat_v] {
             let r2 = d2.gate_ramp(vds, None, &Silent).unwrap();
