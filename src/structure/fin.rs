@@ -355,4 +355,62 @@ mod tests {
             }
         }
     }
+
+    #[test]
+    fn bulk_fin_section_has_sub_fin_isolation_and_substrate_contact() {
+        let s = parse_device(
+            "name = \"f\"\narchitecture = \"bulk-fin\"\n[geometry]\ngate_length_nm = 20\nbody_thickness_nm = 8\n\
+             fin_height_nm = 30\nisolation_depth_nm = 12\nsubstrate_depth_nm = 5\n[[gate_stack]]\n\
+             material = \"SiO2\"\nthickness_nm = 1.0\n[gate]\nworkfunction_eV = 4.6\n\
+             [doping]\nchannel_cm3 = 1e16\nsubfin_cm3 = 3e18\n",
+        )
+        .unwrap();
+        let area = |cs: &CrossSection, r: Region| -> f64 {
+            let p = &cs.problem;
+            let mut a = 0.0;
+            for cy in 0..p.ny - 1 {
+                for cx in 0..p.nx - 1 {
+                    if cs.regions[cx + cy * (p.nx - 1)] == r {
+                        a += (p.x.nodes[cx + 1] - p.x.nodes[cx])
+                            * (p.y.nodes[cy + 1] - p.y.nodes[cy]);
+                    }
+                }
+            }
+            a
+        };
+        let cs = cross_section(&s).unwrap();
+        let p = &cs.problem;
+        // Pitch 8 + 2 + 20 = 30 nm: fin 8 x 30, sub-fin 8 x 12, substrate 30 x 5.
+        assert!((area(&cs, Region::Silicon) - (240.0 + 96.0 + 150.0)).abs() < 1e-9);
+        assert!((area(&cs, Region::Isolation) - 22.0 * 12.0).abs() < 1e-9);
+        assert!((area(&cs, Region::GateStack) - (8.0 + 60.0 + 2.0)).abs() < 1e-9);
+        assert_eq!(area(&cs, Region::BuriedOxide), 0.0);
+        // The bottom face is the substrate contact; the sub-fin holds the stopper doping.
+        let bottom = (p.ny - 1) * p.nx;
+        for i in 0..p.nx {
+            assert_eq!(
+                p.nodes[bottom + i],
+                crate::discretize::NodeKind::Contact(SUBSTRATE)
+            );
+        }
+        let centre = p.x.index_of(0.0).unwrap();
+        let nearest = |v: f64| {
+            (0..p.ny)
+                .min_by(|&a, &b| {
+                    (p.y.nodes[a] - v)
+                        .abs()
+                        .total_cmp(&(p.y.nodes[b] - v).abs())
+                })
+                .unwrap()
+        };
+        let at = |y: f64| p.net_doping[centre + nearest(y) * p.nx];
+        assert!((at(15.0) + 1e16 * 1e-21).abs() < 1e-15);
+        assert!((at(36.0) + 3e18 * 1e-21).abs() < 1e-15);
+        // Grounded below 4 nm under the fin for the eigenproblem: no silicon below 34 nm.
+        let e = bulk_fin_eigen_section(&s, 4.0).unwrap();
+        assert!((area(&e, Region::Silicon) - (240.0 + 32.0)).abs() < 1e-9);
+        // A depth beyond the substrate leaves the section as it is.
+        let same = bulk_fin_eigen_section(&s, 100.0).unwrap();
+        assert_eq!(same.problem.node_count(), p.node_count());
+    }
 }
