@@ -599,8 +599,9 @@ pub fn point_figures(f: &SweepFile) -> (Vec<PointFigures<'_>>, Vec<Omission>) {
         {
             Some(k) => chosen.push(k),
             None if !f.rows.is_empty() => notes.push(Omission {
-                reason: "no I_D-V_G figure: no point of this file holds curves (fins and \
-                         wires are theory points, with no along-channel solve)"
+                reason: "no I_D-V_G figure: no point of this file holds curves (theory \
+                         points, such as fins and wires swept with --fins theory, \
+                         have no along-channel solve)"
                     .to_string(),
                 expected: f.rows.iter().any(|r| !r.curve.vgs_v.is_empty()),
             }),

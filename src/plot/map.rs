@@ -28,7 +28,8 @@ pub enum Region {
     SubFin,
 }
 
-/// A line segment in nm (x along the channel, y down from the silicon surface).
+/// A line segment in nm, in the map's coordinates (planar maps: x along the
+/// channel, y down from the silicon surface; fin slices: see [`super::fin`]).
 pub type Segment = [(f64, f64); 2];
 
 /// A named contact drawn as a bar on the boundary.
@@ -279,7 +280,7 @@ impl<'a> MapFigure<'a> {
         (-step.log10().floor()).clamp(0.0, 6.0) as usize
     }
 
-    /// True when the cell (i, j) is in `r`.
+    /// The region of cell (i, j).
     pub fn region_of(&self, i: usize, j: usize) -> Region {
         self.regions[i + j * (self.map.nx() - 1)]
     }
