@@ -255,7 +255,7 @@ impl<'a> MapFigure<'a> {
         centre("buried oxide", &|r, _| r == Region::BuriedOxide);
         centre("cap", &|r, _| r == Region::Cap);
         centre("isolation", &|r, _| r == Region::Isolation);
-        centre("sub-fin", &|r, _| r == Region::SubFin);
+        centre("sub-fin and substrate Si", &|r, _| r == Region::SubFin);
         Some(MapFigure {
             stem: stem.into(),
             title: title.into(),

@@ -361,7 +361,7 @@ fn build(s: &Scenario, half: bool) -> AlongChannel {
         problem,
         gate_start_nm: geo.gate.0,
         gate_end_nm: geo.gate.1,
-        silicon_bottom_nm: if bulk_fin { geo.z_bottom(s) } else { h },
+        silicon_bottom_nm: h,
         doping,
         mirror_plane_nm: None,
         plugs: None,

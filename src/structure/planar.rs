@@ -124,7 +124,8 @@ pub struct AlongChannel {
     /// Gate electrode from `gate_start_nm` to `gate_end_nm` in x.
     pub gate_start_nm: f64,
     pub gate_end_nm: f64,
-    /// Silicon from y = 0 to `silicon_bottom_nm`.
+    /// Gated silicon from y = 0 (a 3D fin: z = 0) to `silicon_bottom_nm`; a
+    /// bulk fin's sub-fin and substrate lie below it.
     pub silicon_bottom_nm: f64,
     pub doping: DopingProfile,
     /// Double gate: only the upper half is meshed; the structure mirrors about this y (nm).
