@@ -219,3 +219,37 @@ fn a_cg_that_does_not_converge_is_an_error_not_a_value() {
     let st = mg.solve(&mut b, 1e-8, 100).unwrap();
     assert!(st.relative_residual <= 1e-8 && st.iterations > 2, "{st:?}");
 }
+
+#[test]
+fn the_solver_is_chosen_by_dimension_and_size() {
+    // Measured crossover (docs/fins-3d.md): multigrid CG for 3D problems from
+    // 20,000 unknowns, the direct factorisation for smaller 3D and every 2D
+    // problem (whose results stay bit for bit).
+    let small = demo_tri_gate(14.0, 1.0);
+    let large = demo_tri_gate(14.0, 1.5);
+    let planar = parse_device(gatehold::demo::BASE_DEVICE).unwrap();
+    for (s, fin, want) in [
+        (&small, true, LinearSolver::Direct),
+        (&large, true, LinearSolver::Multigrid),
+        (&planar, false, LinearSolver::Direct),
+    ] {
+        let st = if fin {
+            along_fin(s)
+        } else {
+            gatehold::structure::along_channel(s)
+        };
+        let solver = PoissonSolver::new(&st.problem).unwrap();
+        println!(
+            "{} nodes, {} unknowns, 3D {}: {}",
+            st.problem.node_count(),
+            solver.unknowns(),
+            st.problem.is_3d(),
+            solver.linear_solver().as_str()
+        );
+        assert_eq!(solver.linear_solver(), want);
+        assert_eq!(
+            solver.multigrid_levels().is_empty(),
+            want == LinearSolver::Direct
+        );
+    }
+}

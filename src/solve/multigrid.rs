@@ -19,7 +19,7 @@
 //! - **Cycle**: a V-cycle with symmetric Gauss-Seidel (forward sweeps before
 //!   the coarse correction, backward after), so the preconditioner is
 //!   symmetric positive definite and CG applies (Hestenes and Stiefel,
-//!   J. Res. NBS 49(6), 409, 1952; multigrid as a CG preconditioner: Tatebe,
+//!   J. Res. NBS 49(6), 409, 1952; multigrid as a CG preconditioner, from memory: Tatebe,
 //!   Copper Mountain Conference on Multigrid Methods, 1993).
 //!
 //! Tolerance: CG stops when the residual's 2-norm falls below
