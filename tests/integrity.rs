@@ -1,7 +1,9 @@
 //! Sweep files carry checksums: every dataset is written with HDF5's
 //! fletcher32 filter (the HDF5 specification's filter pipeline; h5py and
 //! libhdf5 verify it on read), so one flipped bit in a stored number is an
-//! error naming the file and the dataset, never a different number. Files
+//! error naming the file and the dataset, never a different number (the
+//! text columns carry a SHA-256 attribute, as their text lies outside the
+//! chunks). Files
 //! written before checksums (format 1, and format 2 of earlier versions) still
 //! read, and are listed as unchecked.
 
@@ -22,6 +24,7 @@ const ID_SAT: f64 = 3.141_592_653_589_793e-5;
 const PSI: f64 = 0.123_456_789_012_345_68;
 const SHORTEST_LG: f64 = 26.913_579_246_8;
 const STEPS: i64 = 0x1234_5678_9abc_def0;
+const WARNING: &str = "caution qzqzqzqzqzqz";
 
 /// A small sweep file: two points (one text axis, one numeric), curves, a
 /// map and a `shortest` group. No solve: the numbers are invented.
@@ -65,7 +68,7 @@ fn sample() -> (SweepFile, ShortestTable) {
         figures: vec![Some(0.25 + 0.01 * index as f64), Some(dibl)],
         status: Status::Ok,
         method: Some(Method::TwoDSolve),
-        warnings: vec!["a caution".into()],
+        warnings: vec![if index == 1 { WARNING } else { "a caution" }.into()],
         meets_criteria: CriteriaVerdict::Meets,
         newton_steps: steps,
         vds_v: (0.05, 0.8),
@@ -195,6 +198,19 @@ fn a_flipped_bit_in_a_stored_number_names_the_file_and_dataset() {
         );
         assert!(msg.contains("fletcher32 mismatch"), "{msg}");
     }
+    // Text lives in HDF5's global heap, outside the chunks: its SHA-256
+    // attribute catches a flipped bit there.
+    let mut bytes = std::fs::read(&path).unwrap();
+    let at = only_offset(&bytes, WARNING.as_bytes());
+    bytes[at + 10] ^= 0x01;
+    let bad = path.with_file_name("text.h5");
+    std::fs::write(&bad, bytes).unwrap();
+    let e = read_sweep(&bad).unwrap_err();
+    assert!(
+        matches!(&e, IoError::Damaged { object, reason, .. }
+            if object == "points/warnings" && reason.contains("SHA-256")),
+        "{e}"
+    );
     // The `shortest` group has its own reader.
     let bad = flipped(&path, SHORTEST_LG.to_le_bytes(), "shortest");
     let e = read_shortest(&bad).unwrap_err();

@@ -61,6 +61,22 @@ pub fn read_error(path: &Path, object: &str, e: hdf5_pure::Error) -> IoError {
     }
 }
 
+/// Attribute of each variable-length text dataset: the SHA-256 (FIPS 180-4)
+/// of its text, which fletcher32 does not cover (HDF5 keeps the strings in
+/// its global heap, outside the chunks).
+pub const TEXT_SHA256: &str = "text_sha256";
+
+/// SHA-256 of text elements in a canonical form: each element's UTF-8
+/// bytes without trailing NULs or spaces, followed by one 0 byte.
+pub fn text_sha256<S: AsRef<str>>(elements: &[S]) -> String {
+    let mut bytes = Vec::new();
+    for e in elements {
+        bytes.extend_from_slice(e.as_ref().trim_end_matches(['\0', ' ']).as_bytes());
+        bytes.push(0);
+    }
+    super::sha256_hex(&bytes)
+}
+
 fn chunk(n: usize, max: usize) -> u64 {
     n.clamp(16, max) as u64
 }
@@ -303,6 +319,7 @@ pub fn to_bytes_with(f: &SweepFile, shortest: Option<&ShortestTable>) -> Result<
             }
             Col::VText(v) => {
                 ds.with_vlen_strings(v);
+                ds.set_attr(TEXT_SHA256, AttrValue::AsciiString(text_sha256(v)));
             }
         }
         ds.with_shape(&[n as u64])
@@ -620,12 +637,26 @@ pub fn read_sweep(path: &Path) -> Result<SweepFile, IoError> {
     let f64s = |name: &str| ds(name)?.read_f64().map_err(|e| read_error(path, name, e));
     let i64s = |name: &str| ds(name)?.read_i64().map_err(|e| read_error(path, name, e));
     let strs = |name: &str| -> Result<Vec<String>, IoError> {
-        Ok(ds(name)?
+        let d = ds(name)?;
+        let v: Vec<String> = d
             .read_string()
             .map_err(|e| read_error(path, name, e))?
             .into_iter()
             .map(|s| s.trim_end_matches(['\0', ' ']).to_string())
-            .collect())
+            .collect();
+        // Verified when stored (files before it have none).
+        let attrs = d.attrs().map_err(|e| read_error(path, name, e))?;
+        if let Some(want) = attr_string(&attrs, TEXT_SHA256) {
+            let got = text_sha256(&v);
+            if got != want.trim_end_matches(['\0', ' ']) {
+                return Err(IoError::Damaged {
+                    path: path.display().to_string(),
+                    object: name.to_string(),
+                    reason: format!("SHA-256 of its text {got}, stored {TEXT_SHA256} {want}"),
+                });
+            }
+        }
+        Ok(v)
     };
     let index = i64s("points/point_index")?;
     let n = index.len();
