@@ -41,7 +41,7 @@ channel_cm3 = 1e16
 [bias]
 vgs_start_V = -0.3
 vgs_stop_V = 0.5
-vgs_step_V = 0.05
+vgs_step_V = 0.025
 [mesh]
 max_step_nm = 1.0
 "#
