@@ -11,10 +11,10 @@
 //! |---|---|---|
 //! | constants, materials, internal units | [`physics`] | [`physics::Silicon::at`] |
 //! | device file to checked scenario (one unit system, typed polarity) | [`device`] | [`device::load_device`], [`device::parse_device`] |
-//! | planar and fin geometry and doping | [`structure`] | [`structure::along_channel`], [`structure::long_channel_column`], [`structure::cross_section`] |
+//! | planar sections and 3D fins and wires: geometry and doping | [`structure`] | [`structure::along_channel`], [`structure::long_channel_column`], [`structure::cross_section`], [`structure::along_fin`] |
 //! | mesh lines (far zones) | [`mesh`] | [`mesh::graded_line`], [`mesh::zoned_line`] |
 //! | box-integration discretisation | [`discretize`] | [`discretize::Problem`] |
-//! | Cholesky, Newton, Anderson, quasi-Fermi loop, continuation, uniform-level solver | [`solve`] | [`solve::DeviceSolver`], [`solve::UniformChannel`] |
+//! | Cholesky and multigrid CG, Newton, Anderson, quasi-Fermi loop, continuation, uniform-level solver | [`solve`] | [`solve::DeviceSolver`], [`solve::UniformChannel`] |
 //! | V_t, SS, DIBL, the gate voltages they need, barrier, long channel, electrical channel length | [`extract`] | [`extract::ramp_figures`], [`extract::adaptive::adaptive_ramp`], [`extract::extract_long_channel`], [`extract::electrical_length::electrical_length`] |
 //! | closed forms, natural length, short-channel model (pure) | [`theory`] | [`theory::lambda_report`], [`theory::TheoryInputs`] |
 //! | a whole device, its reference, scans, the report type | [`evaluate`] | [`evaluate::Reference::of`], [`evaluate::evaluate`], [`evaluate::scan::scan`] |
@@ -22,7 +22,7 @@
 //! | plans, parallel sweeps, shards, shortest compliant length | [`sweep`] | [`sweep::run_sweep`], [`sweep::shortest::per_series`] (interpolated: [`evaluate::shortest_compliant`]) |
 //! | the sweep file model, HDF5 and CSV | [`io`] | [`io::hdf5::write_sweep`], [`io::hdf5::read_sweep`] |
 //! | every text table | [`render`] | [`render::device::device_text`] |
-//! | drawing | [`plot`] | [`plot::sweep_plots`], [`plot::device_plots`] |
+//! | drawing | [`plot`] | [`plot::sweep_plots`], [`plot::device_plots`], [`plot::fin_plots`] |
 //! | the built-in demo scenario (data) | [`demo`] | [`demo::plan`] |
 //! | progress to a caller | [`progress`] | [`progress::Observer`] |
 //!

@@ -601,7 +601,7 @@ fn long_tri_gate_approaches_the_cross_section_pao_sah_threshold() {
 }
 
 #[test]
-#[ignore = "several minutes: cargo test --release --test fins3d -- --ignored mesh_is_converged"]
+#[ignore = "about a minute: cargo test --release --test fins3d -- --ignored mesh_is_converged"]
 fn default_3d_mesh_is_converged_per_fin_architecture() {
     // Common practice (mesh refinement study): V_t within 1 mV and DIBL within
     // 3 % of a mesh twice as fine (mesh.refinement = 2).
