@@ -9,9 +9,10 @@
 use std::path::Path;
 use std::process::Command;
 
+mod common;
+
 use gatehold::device::{parse_device, Polarity, Scenario};
 use gatehold::physics::Silicon;
-use gatehold::progress::Silent;
 use gatehold::solve::{DeviceSolver, PoissonSolver};
 use gatehold::structure::{along_fin, along_fin_full};
 
@@ -399,13 +400,6 @@ fn p_channel_bulk_fin_is_the_mirror_image() {
 }
 
 /// The report of `s` at gate length `l_nm` (3D solve, its own reference).
-fn solve_at(s: &Scenario, l_nm: f64) -> gatehold::evaluate::DeviceReport {
-    let sc = s.with_gate_length(l_nm).unwrap();
-    let ev = gatehold::evaluate::evaluate_alone(&sc, &Silent).unwrap();
-    assert_eq!(ev.report.method, gatehold::evaluate::Method::ThreeDSolve);
-    ev.report
-}
-
 #[test]
 #[ignore = "about 30 s: cargo test --release --test bulkfin -- --ignored long_bulk_fin"]
 fn long_bulk_fin_approaches_the_cross_section_pao_sah_threshold() {
@@ -416,7 +410,7 @@ fn long_bulk_fin_approaches_the_cross_section_pao_sah_threshold() {
     s.bias.vgs_step_v = 0.02;
     let mut gaps = Vec::new();
     for l in [300.0, 1000.0] {
-        let r = solve_at(&s, l);
+        let r = common::solve_fin_at(&s, l);
         let gap = 1000.0 * (r.vt_lin_v.unwrap() - r.vt_long_v.unwrap());
         println!(
             "L = {l} nm: V_t,lin {:?} V, V_t,long {:?} V, gap {gap:.4} mV ({} nodes)",
@@ -431,31 +425,11 @@ fn long_bulk_fin_approaches_the_cross_section_pao_sah_threshold() {
 }
 
 #[test]
-#[ignore = "about 3 minutes: cargo test --release --test bulkfin -- --ignored bulk_fin_mesh"]
+#[ignore = "about 30 s: cargo test --release --test bulkfin -- --ignored bulk_fin_mesh"]
 fn bulk_fin_mesh_is_converged() {
     // Common practice (mesh refinement study): V_t within 1 mV and DIBL
     // within 3 % of a mesh twice as fine (mesh.refinement = 2).
     let mut s = small_bulk_fin(0.5);
     s.bias.vgs_step_v = 0.025;
-    let a = solve_at(&s, 20.0);
-    let mut fine = s.clone();
-    fine.mesh.refinement = 2.0;
-    let b = solve_at(&fine, 20.0);
-    for r in [&a, &b] {
-        assert!(r.problems.is_empty(), "{:?}", r.problems);
-    }
-    let dvt = 1000.0 * (a.vt_lin_v.unwrap() - b.vt_lin_v.unwrap());
-    let ddibl = a.dibl_mv_per_v.unwrap() / b.dibl_mv_per_v.unwrap() - 1.0;
-    println!(
-        "bulk-fin: V_t {:.5} vs {:.5} V ({dvt:.3} mV), DIBL {:.2} vs {:.2} mV/V ({:.2} %), nodes {} vs {}",
-        a.vt_lin_v.unwrap(),
-        b.vt_lin_v.unwrap(),
-        a.dibl_mv_per_v.unwrap(),
-        b.dibl_mv_per_v.unwrap(),
-        100.0 * ddibl,
-        a.nodes,
-        b.nodes
-    );
-    assert!(dvt.abs() < 1.0, "{dvt} mV");
-    assert!(ddibl.abs() < 0.03, "{ddibl}");
+    common::assert_3d_mesh_converged("bulk-fin", &s, 20.0);
 }

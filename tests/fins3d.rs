@@ -3,6 +3,8 @@
 //!
 //! Run: `cargo test --release --test fins3d`
 
+mod common;
+
 use gatehold::device::{parse_device, Polarity, Scenario};
 use gatehold::discretize::{CellKind, NodeKind, Problem};
 use gatehold::extract::electrical_length::electrical_length;
@@ -316,13 +318,6 @@ fn p_channel_fin_is_the_mirror_image() {
 }
 
 /// The small fin's full report at gate length `l_nm` (3D solve, its own reference).
-fn solve_at(s: &Scenario, l_nm: f64) -> gatehold::evaluate::DeviceReport {
-    let sc = s.with_gate_length(l_nm).unwrap();
-    let ev = gatehold::evaluate::evaluate_alone(&sc, &Silent).unwrap();
-    assert_eq!(ev.report.method, gatehold::evaluate::Method::ThreeDSolve);
-    ev.report
-}
-
 /// Barrier lowering of one fin at gate length `l_nm`, from the off-state
 /// potentials at V_DS,lin and V_DS,sat (equilibrium at `bias.off_vgs_V`, then
 /// the drain ramped: the same bias points as the report's barrier lowering).
@@ -484,7 +479,7 @@ fn rolloff_split_of_a_fin_compares_densities_per_width() {
     s.bias.vgs_step_v = 0.0125;
     let mut parts = Vec::new();
     for l in [14.0, 200.0] {
-        let r = solve_at(&s, l);
+        let r = common::solve_fin_at(&s, l);
         assert!(r.problems.is_empty(), "L = {l}: {:?}", r.problems);
         let (total, es, len, rest) = (
             r.vt_rolloff_mv.unwrap(),
@@ -573,7 +568,7 @@ fn long_tri_gate_approaches_the_cross_section_pao_sah_threshold() {
     let (vt_same, section_nodes) = vt_long_on_3d_lines(&s);
     let mut gaps = Vec::new();
     for l in [250.0, 500.0, 1000.0] {
-        let r = solve_at(&s, l);
+        let r = common::solve_fin_at(&s, l);
         assert!(r.problems.is_empty(), "L = {l}: {:?}", r.problems);
         let vt = r.vt_lin_v.unwrap();
         let gap = 1000.0 * (vt - vt_same);
@@ -612,26 +607,6 @@ fn default_3d_mesh_is_converged_per_fin_architecture() {
         if arch == "capped-fin" {
             s.geometry.cap_thickness_nm = 3.0;
         }
-        let a = solve_at(&s, 20.0);
-        let mut fine = s.clone();
-        fine.mesh.refinement = 2.0;
-        let b = solve_at(&fine, 20.0);
-        for r in [&a, &b] {
-            assert!(r.problems.is_empty(), "{arch}: {:?}", r.problems);
-        }
-        let dvt = 1000.0 * (a.vt_lin_v.unwrap() - b.vt_lin_v.unwrap());
-        let ddibl = a.dibl_mv_per_v.unwrap() / b.dibl_mv_per_v.unwrap() - 1.0;
-        println!(
-            "{arch}: V_t {:.5} vs {:.5} V ({dvt:.3} mV), DIBL {:.2} vs {:.2} mV/V ({:.2} %), nodes {} vs {}",
-            a.vt_lin_v.unwrap(),
-            b.vt_lin_v.unwrap(),
-            a.dibl_mv_per_v.unwrap(),
-            b.dibl_mv_per_v.unwrap(),
-            100.0 * ddibl,
-            a.nodes,
-            b.nodes
-        );
-        assert!(dvt.abs() < 1.0, "{arch}: {dvt} mV");
-        assert!(ddibl.abs() < 0.03, "{arch}: {ddibl}");
+        common::assert_3d_mesh_converged(arch, &s, 20.0);
     }
 }

@@ -70,3 +70,38 @@ pub fn solve_device(s: &Scenario) -> gatehold::evaluate::DeviceSolution {
     let r = gatehold::evaluate::Reference::of(s, &gatehold::progress::Silent).expect("reference");
     gatehold::evaluate::device::solve_planar(s, &r, &gatehold::progress::Silent).expect("run")
 }
+
+/// The report of `s` solved in 3D at gate length `l_nm` (its own reference).
+pub fn solve_fin_at(s: &Scenario, l_nm: f64) -> gatehold::evaluate::DeviceReport {
+    let sc = s.with_gate_length(l_nm).unwrap();
+    let ev = gatehold::evaluate::evaluate_alone(&sc, &gatehold::progress::Silent).unwrap();
+    assert_eq!(ev.report.method, gatehold::evaluate::Method::ThreeDSolve);
+    ev.report
+}
+
+/// Mesh refinement study (common practice): `s` at `l_nm` against the same
+/// device with `mesh.refinement = 2`; V_t,lin within 1 mV and DIBL within
+/// 3 %. Prints both solves.
+pub fn assert_3d_mesh_converged(label: &str, s: &Scenario, l_nm: f64) {
+    let a = solve_fin_at(s, l_nm);
+    let mut fine = s.clone();
+    fine.mesh.refinement = 2.0;
+    let b = solve_fin_at(&fine, l_nm);
+    for r in [&a, &b] {
+        assert!(r.problems.is_empty(), "{label}: {:?}", r.problems);
+    }
+    let dvt = 1000.0 * (a.vt_lin_v.unwrap() - b.vt_lin_v.unwrap());
+    let ddibl = a.dibl_mv_per_v.unwrap() / b.dibl_mv_per_v.unwrap() - 1.0;
+    println!(
+        "{label}: V_t {:.5} vs {:.5} V ({dvt:.3} mV), DIBL {:.2} vs {:.2} mV/V ({:.2} %), nodes {} vs {}",
+        a.vt_lin_v.unwrap(),
+        b.vt_lin_v.unwrap(),
+        a.dibl_mv_per_v.unwrap(),
+        b.dibl_mv_per_v.unwrap(),
+        100.0 * ddibl,
+        a.nodes,
+        b.nodes
+    );
+    assert!(dvt.abs() < 1.0, "{label}: {dvt} mV");
+    assert!(ddibl.abs() < 0.03, "{label}: {ddibl}");
+}
