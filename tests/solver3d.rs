@@ -253,3 +253,20 @@ fn the_solver_is_chosen_by_dimension_and_size() {
         );
     }
 }
+
+#[test]
+fn reports_name_the_linear_solver() {
+    // Every output names how it was computed (common practice): a solved
+    // device's report carries the linear solver its Newton steps used, a
+    // theory device none.
+    let planar = parse_device(gatehold::demo::BASE_DEVICE).unwrap();
+    let ev = gatehold::evaluate::evaluate_alone(&planar, &Silent).unwrap();
+    assert_eq!(ev.report.linear_solver, Some("cholesky"));
+    let mut fin = small_tri_gate();
+    fin.fin_method = gatehold::device::FinMethod::Theory;
+    let ev = gatehold::evaluate::evaluate_alone(&fin, &Silent).unwrap();
+    assert_eq!(ev.report.method, gatehold::evaluate::Method::Theory);
+    assert_eq!(ev.report.linear_solver, None);
+    let json = serde_json::to_string(&ev.report).unwrap();
+    assert!(!json.contains("linear_solver"), "{json}");
+}

@@ -69,6 +69,7 @@ struct Figures {
     unknowns: usize,
     newton_steps: usize,
     factorisations: usize,
+    linear_solver: Option<&'static str>,
     bias_points: usize,
     vgs_v: Vec<f64>,
     id_lin: Vec<Option<f64>>,
@@ -151,6 +152,7 @@ fn solve_structure(
 ) -> Result<DeviceSolution, EvaluateError> {
     let mut solver = PoissonSolver::new(&structure.problem)?;
     let unknowns = solver.unknowns();
+    let linear_solver = solver.linear_solver().as_str();
     let target = threshold_current(s);
     // Both drain sweeps start from one equilibrium, at the off-state gate
     // voltage (adaptive) or the off end of the grid (grid).
@@ -253,6 +255,7 @@ fn solve_structure(
             unknowns,
             newton_steps: eq_steps + lin.newton_steps + sat.newton_steps,
             factorisations: eq_factorisations + lin.factorisations + sat.factorisations,
+            linear_solver: Some(linear_solver),
             bias_points: lin.points.len() + sat.points.len(),
             vgs_v: vgs,
             id_lin,
@@ -451,6 +454,7 @@ fn fin_report(s: &Scenario, reference: &Reference) -> DeviceReport {
             unknowns: 0,
             newton_steps: 0,
             factorisations: 0,
+            linear_solver: None,
             bias_points: 0,
             vgs_v: Vec::new(),
             id_lin: Vec::new(),
@@ -571,6 +575,7 @@ fn build_report(s: &Scenario, reference: &Reference, f: Figures) -> DeviceReport
         unknowns: f.unknowns,
         newton_steps_total: f.newton_steps + long_steps,
         factorisations_total: f.factorisations,
+        linear_solver: f.linear_solver,
         bias_points: f.bias_points,
         vds_lin_v: lin,
         vds_sat_v: sat,

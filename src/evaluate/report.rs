@@ -205,6 +205,11 @@ pub struct DeviceReport {
     pub unknowns: usize,
     pub newton_steps_total: usize,
     pub factorisations_total: usize,
+    /// The linear solver of the Newton steps: "cholesky" (sparse direct; its
+    /// factorisations are counted) or "multigrid-cg" (large 3D meshes; the
+    /// count is of preconditioner refreshes); absent for theory devices.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub linear_solver: Option<&'static str>,
     pub bias_points: usize,
     #[serde(rename = "vds_lin_V")]
     pub vds_lin_v: f64,

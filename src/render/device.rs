@@ -166,8 +166,18 @@ pub fn device_text(r: &DeviceReport) -> String {
     }
     o.push_str(&super::pitch::capacitance_text(r));
     o.push_str(&format!(
-        "  mesh {} nodes ({} unknowns); {} bias points; {} Newton steps, {} factorisations; converged: {}\n",
-        r.nodes, r.unknowns, r.bias_points, r.newton_steps_total, r.factorisations_total, r.converged
+        "  mesh {} nodes ({} unknowns); {} bias points; {} Newton steps, {} {}; converged: {}\n",
+        r.nodes,
+        r.unknowns,
+        r.bias_points,
+        r.newton_steps_total,
+        r.factorisations_total,
+        match r.linear_solver {
+            Some("multigrid-cg") =>
+                "multigrid set-ups (linear solver: multigrid-preconditioned CG)",
+            _ => "factorisations",
+        },
+        r.converged
     ));
     o.push_str(&format!(
         "  V_t criterion: I_D = {:.3e} A x W/L_g = {:.3e} A/um; currents in {}\n",
