@@ -4,6 +4,7 @@
 //! The model is the same whether it was just computed or read back from a
 //! file, so resume, merge and plotting all work on it.
 
+pub mod checksum;
 pub mod csv;
 pub mod hdf5;
 pub mod shortest;

@@ -92,7 +92,7 @@ pub fn add_group(fb: &mut FileBuilder, t: &ShortestTable) -> Result<(), String> 
     for (name, units, description, read) in NUMBERS {
         let v: Vec<f64> = t.rows.iter().map(|r| read(r).unwrap_or(f64::NAN)).collect();
         let ds = g.create_dataset(name);
-        super::hdf5::checksummed(ds, &[n as u64])
+        super::checksum::checksummed(ds, &[n as u64])
             .with_f64_data(&v)
             .with_shape(&[n as u64]);
         ds.set_attr("units", vs(units));
@@ -100,7 +100,7 @@ pub fn add_group(fb: &mut FileBuilder, t: &ShortestTable) -> Result<(), String> 
     }
     let failed: Vec<i64> = t.rows.iter().map(|r| r.failed_points as i64).collect();
     let ds = g.create_dataset("failed_points");
-    super::hdf5::checksummed(ds, &[n as u64])
+    super::checksum::checksummed(ds, &[n as u64])
         .with_i64_data(&failed)
         .with_shape(&[n as u64]);
     ds.set_attr("units", vs("1"));
@@ -121,7 +121,7 @@ pub fn add_group(fb: &mut FileBuilder, t: &ShortestTable) -> Result<(), String> 
         let ds = g.create_dataset(name);
         ds.with_ascii_strings_sized(&v, w as u32)
             .map_err(|e| format!("shortest/{name}: {e}"))?;
-        super::hdf5::checksummed(ds, &[n as u64]).with_shape(&[n as u64]);
+        super::checksum::checksummed(ds, &[n as u64]).with_shape(&[n as u64]);
         ds.set_attr("units", vs("1"));
         ds.set_attr("description", vs(description));
     }
@@ -131,7 +131,7 @@ pub fn add_group(fb: &mut FileBuilder, t: &ShortestTable) -> Result<(), String> 
 
 /// Reads the `shortest` group back (None when the file has none).
 pub fn read_shortest(path: &Path) -> Result<Option<ShortestTable>, IoError> {
-    let err = |object: &str, e: hdf5_pure::Error| super::hdf5::read_error(path, object, e);
+    let err = |object: &str, e: hdf5_pure::Error| super::checksum::read_error(path, object, e);
     let file = File::open(path).map_err(|e| IoError::File {
         path: path.display().to_string(),
         reason: e.to_string(),
