@@ -421,6 +421,26 @@ fn natural_length_fitted_to_3d_barrier_lowering_matches_the_cross_section() {
             fit.lambda_nm
         );
         assert!(fit.r_squared > 0.99, "{arch}: {fit:?}");
+        // `gatehold scan` makes the same fit on the same path (the shortest
+        // length's leakiest line at V_DS,sat), so a user sees this check.
+        let r = gatehold::evaluate::scan::scan(&s, &lengths, &Silent).unwrap();
+        let p = r.lambda_fitted_barrier_fixed_path.expect("fixed-path fit");
+        println!(
+            "{arch}: scan's fixed-path fit {:.3} nm on y = {:.2}, z = {:.2} nm",
+            p.fit.lambda_nm, p.path_y_nm, p.path_z_nm
+        );
+        assert!(
+            (p.path_y_nm - y).abs() < 1e-9 && (p.path_z_nm - z).abs() < 1e-9,
+            "{arch}: scan's path ({}, {}) vs ({y}, {z})",
+            p.path_y_nm,
+            p.path_z_nm
+        );
+        assert!(
+            (p.fit.lambda_nm / fit.lambda_nm - 1.0).abs() < 1e-3,
+            "{arch}: scan {} vs {}",
+            p.fit.lambda_nm,
+            fit.lambda_nm
+        );
     }
 }
 

@@ -12,6 +12,7 @@ use super::reference::{Reference, ReferenceError};
 use super::report::{Method, Status, CAUTION};
 use crate::device::{Architecture, FinMethod, Scenario};
 use crate::extract::electrical_length::{terada_muta, LengthCurve, TeradaMuta};
+use crate::extract::line_tops;
 use crate::progress::Observer;
 use crate::theory::short_channel::{fit_lambda_from_dibl, LambdaFit, TheoryLength};
 
@@ -70,6 +71,12 @@ pub struct ScanReport {
     pub lambda_fitted: Option<LambdaFit>,
     /// Lambda fitted to the solved barrier lowering against L.
     pub lambda_fitted_barrier: Option<LambdaFit>,
+    /// Fins and wires solved in 3D: lambda fitted to the barrier lowering on
+    /// one fixed path for every length, the leakiest line of the shortest
+    /// solved length at V_DS,sat (natural-length theory's exp(-L/(2 lambda))
+    /// holds on each path; the leakiest line itself moves with L, up a
+    /// tri-gate's fin as L grows, so `lambda_fitted_barrier` mixes paths).
+    pub lambda_fitted_barrier_fixed_path: Option<FixedPathFit>,
     pub lambda_fit_note: String,
     /// The length the theory columns are evaluated at: "gate" (L_g) or "electrical" (L_elec).
     pub theory_length: &'static str,
@@ -91,6 +98,53 @@ pub struct ScanReport {
     /// The shortest compliant length interpolated between the solved lengths (null: no criteria).
     pub shortest: Option<ShortestAnswer>,
     pub caution: String,
+}
+
+/// Lambda fitted on one fixed path (a line along x at fixed y and z).
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct FixedPathFit {
+    #[serde(flatten)]
+    pub fit: LambdaFit,
+    /// The path: across the fin (0 at its centre) and below the top silicon surface, nm.
+    pub path_y_nm: f64,
+    pub path_z_nm: f64,
+}
+
+/// Barrier lowering on every (y, z) line of one 3D solve, meV.
+struct LineLowering {
+    y_nm: Vec<f64>,
+    z_nm: Vec<f64>,
+    lowering_mev: Vec<Option<f64>>,
+    /// The leakiest line at V_DS,sat (y, z), nm.
+    leakiest: (f64, f64),
+}
+
+impl LineLowering {
+    fn of(sol: &super::device::DeviceSolution, polarity: crate::device::Polarity) -> Option<Self> {
+        let p = &sol.structure.problem;
+        let (lin, sat) = (sol.lin.off_psi.as_ref()?, sol.sat.off_psi.as_ref()?);
+        let b = sol.barrier_sat?;
+        let (tl, ts) = (line_tops(p, lin, polarity), line_tops(p, sat, polarity));
+        Some(LineLowering {
+            y_nm: p.y.nodes.clone(),
+            z_nm: p.z.nodes.clone(),
+            lowering_mev: tl
+                .iter()
+                .zip(&ts)
+                .map(|(a, b)| Some(1000.0 * (a.as_ref()?.0 - b.as_ref()?.0)))
+                .collect(),
+            leakiest: (b.y_nm, b.z_nm),
+        })
+    }
+
+    /// The lowering on the line through the mesh nodes nearest (y, z).
+    fn at(&self, (y, z): (f64, f64)) -> Option<f64> {
+        let nearest = |nodes: &[f64], v: f64| {
+            (0..nodes.len()).min_by(|&a, &b| (nodes[a] - v).abs().total_cmp(&(nodes[b] - v).abs()))
+        };
+        let (j, k) = (nearest(&self.y_nm, y)?, nearest(&self.z_nm, z)?);
+        self.lowering_mev[j + self.y_nm.len() * k]
+    }
 }
 
 /// The criteria of a scan as written in its JSON.
@@ -215,7 +269,7 @@ pub fn scan_with(
     } else {
         Method::Theory
     };
-    let solved: Vec<(ScanRow, Option<SolvedCurve>)> = scenarios
+    let solved: Vec<(ScanRow, Option<SolvedCurve>, Option<LineLowering>)> = scenarios
         .par_iter()
         .map(|sc| {
             let l = sc.geometry.gate_length_nm;
@@ -245,9 +299,14 @@ pub fn scan_with(
                 status: Status::Ok,
             };
             let mut curve = None;
+            let mut lines = None;
             if method != Method::Theory {
                 match evaluate(sc, &reference, observer) {
                     Ok(ev) => {
+                        lines = ev
+                            .solution_3d
+                            .as_ref()
+                            .and_then(|sol| LineLowering::of(sol, sc.polarity));
                         let r = ev.report;
                         row.vt_lin_v = r.vt_lin_v;
                         row.vt_rolloff_mv = r.vt_rolloff_mv;
@@ -280,11 +339,24 @@ pub fn scan_with(
                 }
             }
             row.status = Status::from_problems(&problems);
-            (row, curve)
+            (row, curve, lines)
         })
         .collect();
-    let curves: Vec<SolvedCurve> = solved.iter().filter_map(|(_, c)| c.clone()).collect();
-    let rows: Vec<ScanRow> = solved.into_iter().map(|(r, _)| r).collect();
+    let curves: Vec<SolvedCurve> = solved.iter().filter_map(|(_, c, _)| c.clone()).collect();
+    // The fixed path: the leakiest line of the shortest 3D-solved length.
+    let path = solved
+        .iter()
+        .filter_map(|(r, _, l)| l.as_ref().map(|l| (r.gate_length_nm, l.leakiest)))
+        .min_by(|a, b| a.0.total_cmp(&b.0))
+        .map(|(_, p)| p);
+    let on_path: Vec<(f64, f64)> = match path {
+        Some(path) => solved
+            .iter()
+            .filter_map(|(r, _, l)| Some((r.gate_length_nm, l.as_ref()?.at(path)?)))
+            .collect(),
+        None => Vec::new(),
+    };
+    let rows: Vec<ScanRow> = solved.into_iter().map(|(r, _, _)| r).collect();
     let terada_muta = terada_muta_of(&curves, s.bias.vds_lin_v);
     let fit = |pick: &dyn Fn(&ScanRow) -> Option<f64>| {
         let pts: Vec<(f64, f64)> = rows
@@ -299,6 +371,18 @@ pub fn scan_with(
     };
     let lambda_fitted = fit(&|r| r.dibl_mv_per_v);
     let lambda_fitted_barrier = fit(&|r| r.barrier_lowering_mev);
+    let lambda_fitted_barrier_fixed_path = match path {
+        Some((y, z)) if on_path.len() >= 2 => {
+            fit_lambda_from_dibl(&on_path, 0.0)
+                .ok()
+                .map(|fit| FixedPathFit {
+                    fit,
+                    path_y_nm: y,
+                    path_z_nm: z,
+                })
+        }
+        _ => None,
+    };
     Ok(ScanReport {
         name: s.name.clone(),
         architecture: s.architecture,
@@ -308,6 +392,7 @@ pub fn scan_with(
         lambda_closed_forms: lam.lambda_closed_forms,
         lambda_fitted,
         lambda_fitted_barrier,
+        lambda_fitted_barrier_fixed_path,
         terada_muta,
         theory_length: theory_length.name(),
         lambda_fit_note: "least-squares lines of ln(DIBL) and of ln(barrier lowering) against L over the solved \

@@ -29,6 +29,27 @@ pub fn band_edge_ev(p: &Problem, psi: f64, polarity: Polarity) -> f64 {
     0.5 * p.silicon.eg_ev - polarity.sign() * psi
 }
 
+/// The top of every line of semiconductor nodes along x (fixed y, z): its
+/// highest band edge (eV) and the x where it lies (nm), or None for a line
+/// without semiconductor nodes. Indexed by line `j + ny k`.
+pub fn line_tops(p: &Problem, psi: &[f64], polarity: Polarity) -> Vec<Option<(f64, f64)>> {
+    (0..p.ny * p.nz)
+        .map(|line| {
+            let mut top: Option<(f64, f64)> = None;
+            for i in 0..p.nx {
+                let k = i + line * p.nx;
+                if p.semi_area[k] > 0.0 {
+                    let e = band_edge_ev(p, psi[k], polarity);
+                    if top.is_none_or(|(t, _)| e > t) {
+                        top = Some((e, p.x.nodes[i]));
+                    }
+                }
+            }
+            top
+        })
+        .collect()
+}
+
 /// For each line of semiconductor nodes along x (fixed y, z) the barrier is
 /// the maximum band edge over x; the device barrier is the lowest of these
 /// (the leakiest path). Ties keep the first line (lowest y, then z).
@@ -41,32 +62,20 @@ pub fn barrier(p: &Problem, psi: &[f64], polarity: Polarity) -> Barrier {
         z_nm: 0.0,
         line: 0,
     };
-    for line in 0..p.ny * p.nz {
-        let mut top = f64::NEG_INFINITY;
-        let mut x_top = 0.0;
-        let mut any = false;
-        for i in 0..p.nx {
-            let k = i + line * p.nx;
-            if p.semi_area[k] > 0.0 {
-                any = true;
-                let e = band_edge_ev(p, psi[k], polarity);
-                if e > top {
-                    top = e;
-                    x_top = p.x.nodes[i];
-                }
+    for (line, top) in line_tops(p, psi, polarity).into_iter().enumerate() {
+        if let Some((top, x_top)) = top {
+            if top < best.height_ev {
+                let (j, k) = (line % p.ny, line / p.ny);
+                let (y_nm, z_nm) = (p.y.nodes[j], p.z.nodes[k]);
+                best = Barrier {
+                    height_ev: top,
+                    depth_nm: if p.is_3d() { z_nm } else { y_nm },
+                    x_nm: x_top,
+                    y_nm,
+                    z_nm,
+                    line,
+                };
             }
-        }
-        if any && top < best.height_ev {
-            let (j, k) = (line % p.ny, line / p.ny);
-            let (y_nm, z_nm) = (p.y.nodes[j], p.z.nodes[k]);
-            best = Barrier {
-                height_ev: top,
-                depth_nm: if p.is_3d() { z_nm } else { y_nm },
-                x_nm: x_top,
-                y_nm,
-                z_nm,
-                line,
-            };
         }
     }
     best

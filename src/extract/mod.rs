@@ -14,7 +14,7 @@ pub mod curve;
 pub mod electrical_length;
 pub mod long_channel;
 
-pub use barrier::{band_edge_ev, barrier, Barrier};
+pub use barrier::{band_edge_ev, barrier, line_tops, Barrier};
 pub use curve::{
     ascending, dibl, ramp_figures, swing, threshold, union_curves, Curve, ExtractError,
 };

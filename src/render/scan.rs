@@ -32,6 +32,18 @@ pub fn render_text(r: &ScanReport) -> String {
             ));
         }
     }
+    if let Some(p) = &r.lambda_fitted_barrier_fixed_path {
+        o.push_str(&format!(
+            "  lambda fitted to the solved barrier lowering on one path (y {:.2} nm, z {:.2} nm, the shortest \
+             length's leakiest line): {:.2} nm (R^2 {:.4}, {} lengths; {:+.1} % of the numeric lambda)\n",
+            p.path_y_nm,
+            p.path_z_nm,
+            p.fit.lambda_nm,
+            p.fit.r_squared,
+            p.fit.points,
+            100.0 * (p.fit.lambda_nm / r.lambda_numeric_nm - 1.0)
+        ));
+    }
     o.push_str(&format!(
         "  V_t,long {:.4} V, SS_long {:.1} mV/dec, theory barrier V_bi - phi_s {:.3} V\n\n",
         r.vt_long_v, r.ss_long_mv_per_dec, r.theory_barrier_v
