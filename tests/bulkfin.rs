@@ -11,10 +11,7 @@ use std::process::Command;
 
 mod common;
 
-use gatehold::device::{parse_device, Polarity, Scenario};
-use gatehold::physics::Silicon;
-use gatehold::solve::{DeviceSolver, PoissonSolver};
-use gatehold::structure::{along_fin, along_fin_full};
+use gatehold::device::{parse_device, Scenario};
 
 const BIN: &str = env!("CARGO_BIN_EXE_gatehold");
 
@@ -337,40 +334,12 @@ max_step_nm = {max_step_nm}
     .unwrap()
 }
 
-/// Tight tolerances so that two solves of the same problem agree far below the default 1e-6 V_T.
-fn tight(solver: &mut DeviceSolver) {
-    solver.opts.update_tol_v = 1e-12;
-    solver.opts.residual_tol_v = 1e-12;
-}
-
 #[test]
 fn half_and_full_bulk_fin_domains_agree() {
     // Mirror symmetry about y = 0 (DEVICE-FORMAT.md, "Fins and wires solved
     // in 3D"): the half domain with a zero-field symmetry plane equals the
     // full one, sub-fin, isolation and substrate contact included.
-    let s = small_bulk_fin(1.5);
-    let half = along_fin(&s);
-    let full = along_fin_full(&s);
-    let (ph, pf) = (&half.problem, &full.problem);
-    assert_eq!(pf.ny, 2 * ph.ny - 1);
-    let mut dh = DeviceSolver::new(&s, &half, PoissonSolver::new(ph).unwrap());
-    let mut df = DeviceSolver::new(&s, &full, PoissonSolver::new(pf).unwrap());
-    tight(&mut dh);
-    tight(&mut df);
-    let psi_h = dh.initial_state(0.2, 0.0).unwrap();
-    let psi_f = df.initial_state(0.2, 0.0).unwrap();
-    let off = ph.ny - 1;
-    let mut worst: f64 = 0.0;
-    for k in 0..ph.nz {
-        for j in 0..ph.ny {
-            for i in 0..ph.nx {
-                let a = psi_h[ph.index(i, j, k)];
-                let b = psi_f[pf.index(i, off + j, k)];
-                let c = psi_f[pf.index(i, off - j, k)];
-                worst = worst.max((a - b).abs()).max((a - c).abs());
-            }
-        }
-    }
+    let worst = common::half_full_largest_difference(&small_bulk_fin(1.5));
     println!("bulk-fin: largest |psi_half - psi_full| = {worst:.3e} V");
     assert!(worst < 1e-9, "{worst}");
 }
@@ -380,21 +349,7 @@ fn p_channel_bulk_fin_is_the_mirror_image() {
     // MODEL.md section 3: a p-channel device is the mirror image of the
     // n-channel one (donors, work function mirrored about midgap, biases
     // negated); the substrate contact mirrors with the sub-fin doping.
-    let n = small_bulk_fin(1.5);
-    let mut p = n.clone();
-    p.polarity = Polarity::P;
-    let phi_i = Silicon::at(n.temperature_k).phi_i_ev;
-    p.gate.workfunction_ev = 2.0 * phi_i - n.gate.workfunction_ev;
-    let (sn, sp) = (along_fin(&n), along_fin(&p));
-    let mut dn = DeviceSolver::new(&n, &sn, PoissonSolver::new(&sn.problem).unwrap());
-    let mut dp = DeviceSolver::new(&p, &sp, PoissonSolver::new(&sp.problem).unwrap());
-    let psi_n = dn.initial_state(0.2, 0.5).unwrap();
-    let psi_p = dp.initial_state(-0.2, -0.5).unwrap();
-    let worst = psi_n
-        .iter()
-        .zip(&psi_p)
-        .map(|(a, b)| (a + b).abs())
-        .fold(0.0, f64::max);
+    let worst = common::mirror_largest_sum(&small_bulk_fin(1.5));
     println!("bulk-fin: largest |psi_n + psi_p| = {worst:.3e} V");
     assert!(worst < 1e-9, "{worst}");
 }

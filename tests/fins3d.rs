@@ -13,7 +13,7 @@ use gatehold::mesh::Line;
 use gatehold::physics::{Silicon, EPS_SI, EPS_SIO2, Q_OVER_EPS0_V_NM};
 use gatehold::progress::Silent;
 use gatehold::solve::{DeviceSolver, NewtonOptions, PoissonSolver, QuasiFermi, UniformChannel};
-use gatehold::structure::{along_channel, along_channel_extruded, along_fin, along_fin_full};
+use gatehold::structure::{along_channel, along_channel_extruded, along_fin};
 use gatehold::theory::short_channel::fit_lambda_from_dibl;
 
 fn device(text: &str) -> Scenario {
@@ -80,12 +80,6 @@ max_step_nm = 1.0
     ))
 }
 
-/// Tight tolerances so that two solves of the same problem agree far below the default 1e-6 V_T.
-fn tight(solver: &mut DeviceSolver) {
-    solver.opts.update_tol_v = 1e-12;
-    solver.opts.residual_tol_v = 1e-12;
-}
-
 #[test]
 fn extruded_planar_sections_reproduce_the_2d_solve() {
     // Common practice (extrusion invariance of box integration): a planar
@@ -99,8 +93,8 @@ fn extruded_planar_sections_reproduce_the_2d_solve() {
         assert_eq!(p3.nz, 3);
         let mut d2 = DeviceSolver::new(&s, &a2, PoissonSolver::new(p2).unwrap());
         let mut d3 = DeviceSolver::new(&s, &a3, PoissonSolver::new(p3).unwrap());
-        tight(&mut d2);
-        tight(&mut d3);
+        common::tight(&mut d2);
+        common::tight(&mut d3);
         let psi2 = d2.initial_state(0.1, 0.3).unwrap();
         let psi3 = d3.initial_state(0.1, 0.3).unwrap();
         let n2 = p2.node_count();
@@ -251,73 +245,21 @@ fn half_and_full_fin_domains_agree() {
     // Mirror symmetry about y = 0 (DEVICE-FORMAT.md, "Fins and wires solved in
     // 3D"): the half domain with a zero-field symmetry plane equals the full one.
     for arch in ["tri-gate", "gate-all-around"] {
-        let s = small_fin(arch);
-        let half = along_fin(&s);
-        let full = along_fin_full(&s);
-        let (ph, pf) = (&half.problem, &full.problem);
-        assert_eq!(pf.ny, 2 * ph.ny - 1);
-        let mut dh = DeviceSolver::new(&s, &half, PoissonSolver::new(ph).unwrap());
-        let mut df = DeviceSolver::new(&s, &full, PoissonSolver::new(pf).unwrap());
-        tight(&mut dh);
-        tight(&mut df);
-        // At V_DS = 0 the quasi-Fermi level is exactly uniform, so both
-        // solves converge to rounding.
-        let psi_h = dh.initial_state(0.2, 0.0).unwrap();
-        let psi_f = df.initial_state(0.2, 0.0).unwrap();
-        let off = ph.ny - 1; // full-domain y index of the half domain's y = 0
-        let mut worst: f64 = 0.0;
-        for k in 0..ph.nz {
-            for j in 0..ph.ny {
-                for i in 0..ph.nx {
-                    let a = psi_h[ph.index(i, j, k)];
-                    let b = psi_f[pf.index(i, off + j, k)];
-                    let c = psi_f[pf.index(i, off - j, k)];
-                    worst = worst.max((a - b).abs()).max((a - c).abs());
-                }
-            }
-        }
+        let worst = common::half_full_largest_difference(&small_fin(arch));
         println!("{arch}: largest |psi_half - psi_full| = {worst:.3e} V");
         assert!(worst < 1e-9, "{arch}: {worst}");
     }
-}
-
-fn mirrored(s: &Scenario) -> Scenario {
-    let mut p = s.clone();
-    p.polarity = Polarity::P;
-    let phi_i = Silicon::at(s.temperature_k).phi_i_ev;
-    p.gate.workfunction_ev = 2.0 * phi_i - s.gate.workfunction_ev;
-    p.gate.back_workfunction_ev = 2.0 * phi_i - s.gate.back_workfunction_ev;
-    p.gate.back_bias_v = -s.gate.back_bias_v;
-    let b = &s.bias;
-    p.bias.vds_lin_v = -b.vds_lin_v;
-    p.bias.vds_sat_v = -b.vds_sat_v;
-    p.bias.vgs_start_v = -b.vgs_stop_v;
-    p.bias.vgs_stop_v = -b.vgs_start_v;
-    p.bias.off_vgs_v = -b.off_vgs_v;
-    p
 }
 
 #[test]
 fn p_channel_fin_is_the_mirror_image() {
     // MODEL.md section 3: a p-channel device is the mirror image of the
     // n-channel one (donors, work function mirrored about midgap, biases negated).
-    let n = small_fin("tri-gate");
-    let p = mirrored(&n);
-    let (sn, sp) = (along_fin(&n), along_fin(&p));
-    let mut dn = DeviceSolver::new(&n, &sn, PoissonSolver::new(&sn.problem).unwrap());
-    let mut dp = DeviceSolver::new(&p, &sp, PoissonSolver::new(&sp.problem).unwrap());
-    let psi_n = dn.initial_state(0.2, 0.5).unwrap();
-    let psi_p = dp.initial_state(-0.2, -0.5).unwrap();
-    let worst = psi_n
-        .iter()
-        .zip(&psi_p)
-        .map(|(a, b)| (a + b).abs())
-        .fold(0.0, f64::max);
+    let worst = common::mirror_largest_sum(&small_fin("tri-gate"));
     println!("largest |psi_n + psi_p| = {worst:.3e} V");
     assert!(worst < 1e-9, "{worst}");
 }
 
-/// The small fin's full report at gate length `l_nm` (3D solve, its own reference).
 /// Barrier lowering of one fin at gate length `l_nm`, from the off-state
 /// potentials at V_DS,lin and V_DS,sat (equilibrium at `bias.off_vgs_V`, then
 /// the drain ramped: the same bias points as the report's barrier lowering).

@@ -105,3 +105,80 @@ pub fn assert_3d_mesh_converged(label: &str, s: &Scenario, l_nm: f64) {
     assert!(dvt.abs() < 1.0, "{label}: {dvt} mV");
     assert!(ddibl.abs() < 0.03, "{label}: {ddibl}");
 }
+
+/// Tight tolerances so that two solves of the same problem agree far below
+/// the default 1e-6 V_T.
+pub fn tight(solver: &mut gatehold::solve::DeviceSolver) {
+    solver.opts.update_tol_v = 1e-12;
+    solver.opts.residual_tol_v = 1e-12;
+}
+
+/// Mirror symmetry about y = 0 (DEVICE-FORMAT.md, "Fins and wires solved in
+/// 3D"): the largest difference between the half domain (zero-field symmetry
+/// plane) and both mirror halves of the full domain, at V_DS = 0 (where the
+/// quasi-Fermi level is exactly uniform, so both solves converge to
+/// rounding), V.
+pub fn half_full_largest_difference(s: &Scenario) -> f64 {
+    use gatehold::solve::{DeviceSolver, PoissonSolver};
+    let half = gatehold::structure::along_fin(s);
+    let full = gatehold::structure::along_fin_full(s);
+    let (ph, pf) = (&half.problem, &full.problem);
+    assert_eq!(pf.ny, 2 * ph.ny - 1);
+    let mut dh = DeviceSolver::new(s, &half, PoissonSolver::new(ph).unwrap());
+    let mut df = DeviceSolver::new(s, &full, PoissonSolver::new(pf).unwrap());
+    tight(&mut dh);
+    tight(&mut df);
+    let psi_h = dh.initial_state(0.2, 0.0).unwrap();
+    let psi_f = df.initial_state(0.2, 0.0).unwrap();
+    let off = ph.ny - 1; // full-domain y index of the half domain's y = 0
+    let mut worst: f64 = 0.0;
+    for k in 0..ph.nz {
+        for j in 0..ph.ny {
+            for i in 0..ph.nx {
+                let a = psi_h[ph.index(i, j, k)];
+                let b = psi_f[pf.index(i, off + j, k)];
+                let c = psi_f[pf.index(i, off - j, k)];
+                worst = worst.max((a - b).abs()).max((a - c).abs());
+            }
+        }
+    }
+    worst
+}
+
+/// The p-channel mirror image of `s` (MODEL.md section 3: donors for
+/// acceptors, work functions mirrored about midgap, biases negated).
+pub fn mirrored(s: &Scenario) -> Scenario {
+    let mut p = s.clone();
+    p.polarity = gatehold::device::Polarity::P;
+    let phi_i = gatehold::physics::Silicon::at(s.temperature_k).phi_i_ev;
+    p.gate.workfunction_ev = 2.0 * phi_i - s.gate.workfunction_ev;
+    p.gate.back_workfunction_ev = 2.0 * phi_i - s.gate.back_workfunction_ev;
+    p.gate.back_bias_v = -s.gate.back_bias_v;
+    let b = &s.bias;
+    p.bias.vds_lin_v = -b.vds_lin_v;
+    p.bias.vds_sat_v = -b.vds_sat_v;
+    p.bias.vgs_start_v = -b.vgs_stop_v;
+    p.bias.vgs_stop_v = -b.vgs_start_v;
+    p.bias.off_vgs_v = -b.off_vgs_v;
+    p
+}
+
+/// The largest |psi_n + psi_p| of `n` and its mirror image solved in 3D at
+/// V_GS = 0.2 V, V_DS = 0.5 V (and their negatives), V: zero for an exact mirror.
+pub fn mirror_largest_sum(n: &Scenario) -> f64 {
+    use gatehold::solve::{DeviceSolver, PoissonSolver};
+    let p = mirrored(n);
+    let (sn, sp) = (
+        gatehold::structure::along_fin(n),
+        gatehold::structure::along_fin(&p),
+    );
+    let mut dn = DeviceSolver::new(n, &sn, PoissonSolver::new(&sn.problem).unwrap());
+    let mut dp = DeviceSolver::new(&p, &sp, PoissonSolver::new(&sp.problem).unwrap());
+    let psi_n = dn.initial_state(0.2, 0.5).unwrap();
+    let psi_p = dp.initial_state(-0.2, -0.5).unwrap();
+    psi_n
+        .iter()
+        .zip(&psi_p)
+        .map(|(a, b)| (a + b).abs())
+        .fold(0.0, f64::max)
+}
