@@ -138,22 +138,6 @@ fn two_d_threshold_approaches_the_long_channel_reference() {
     assert!(gaps[1] < 0.5, "gap at 4 um {} mV", gaps[1]);
 }
 
-fn mirrored(s: &Scenario) -> Scenario {
-    let mut p = s.clone();
-    p.polarity = gatehold::device::Polarity::P;
-    let phi_i = gatehold::physics::Silicon::at(s.temperature_k).phi_i_ev;
-    p.gate.workfunction_ev = 2.0 * phi_i - s.gate.workfunction_ev;
-    p.gate.back_workfunction_ev = 2.0 * phi_i - s.gate.back_workfunction_ev;
-    p.gate.back_bias_v = -s.gate.back_bias_v;
-    let b = &s.bias;
-    p.bias.vds_lin_v = -b.vds_lin_v;
-    p.bias.vds_sat_v = -b.vds_sat_v;
-    p.bias.vgs_start_v = -b.vgs_stop_v;
-    p.bias.vgs_stop_v = -b.vgs_start_v;
-    p.bias.off_vgs_v = -b.off_vgs_v;
-    p
-}
-
 #[test]
 fn p_channel_is_the_mirror_image() {
     // MODEL.md section 3: a p-channel device is the mirror image of the n-channel one.
@@ -183,7 +167,7 @@ max_step_nm = 1.0
 "#,
     );
     let n = run(&base);
-    let p = run(&mirrored(&base));
+    let p = run(&common::mirrored(&base));
     let pairs = [
         ("vt_lin", n.vt_lin_v.unwrap(), -p.vt_lin_v.unwrap()),
         ("vt_sat", n.vt_sat_v.unwrap(), -p.vt_sat_v.unwrap()),

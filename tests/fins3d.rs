@@ -51,33 +51,7 @@ max_step_nm = 1.0
 
 /// Small tri-gate for the 3D checks (coarse mesh, short source and drain).
 fn small_fin(arch: &str) -> Scenario {
-    device(&format!(
-        r#"
-name = "small-fin"
-architecture = "{arch}"
-[geometry]
-gate_length_nm = 14
-body_thickness_nm = 6
-fin_height_nm = 10
-fin_pitch_nm = 16
-box_thickness_nm = 8
-source_drain_length_nm = 8
-gate_height_nm = 4
-[[gate_stack]]
-material = "SiO2"
-thickness_nm = 1.0
-[gate]
-workfunction_eV = 4.6
-[doping]
-channel_cm3 = 1e16
-[bias]
-vgs_start_V = -0.3
-vgs_stop_V = 0.5
-vgs_step_V = 0.05
-[mesh]
-max_step_nm = 1.0
-"#
-    ))
+    device(&common::small_fin_text(arch, "", 0.05))
 }
 
 #[test]

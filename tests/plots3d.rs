@@ -5,6 +5,8 @@
 //!
 //! Run: `cargo test --release --test plots3d`
 
+mod common;
+
 use std::path::{Path, PathBuf};
 use std::process::Command;
 use std::sync::OnceLock;
@@ -18,34 +20,7 @@ use gatehold::structure::{BACK_PLANE, GATE};
 
 /// A small fin or wire (6 x 10 nm body, 14 nm gate, coarse 3D mesh).
 fn small(arch: &str, extra_geometry: &str) -> String {
-    format!(
-        r#"
-name = "small-{arch}"
-architecture = "{arch}"
-[geometry]
-gate_length_nm = 14
-body_thickness_nm = 6
-fin_height_nm = 10
-fin_pitch_nm = 16
-box_thickness_nm = 8
-source_drain_length_nm = 8
-gate_height_nm = 4
-{extra_geometry}
-[[gate_stack]]
-material = "SiO2"
-thickness_nm = 1.0
-[gate]
-workfunction_eV = 4.6
-[doping]
-channel_cm3 = 1e16
-[bias]
-vgs_start_V = -0.3
-vgs_stop_V = 0.5
-vgs_step_V = 0.025
-[mesh]
-max_step_nm = 1.0
-"#
-    )
+    common::small_fin_text(arch, extra_geometry, 0.025)
 }
 
 fn solve(text: &str) -> (Scenario, DeviceSolution) {

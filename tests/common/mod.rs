@@ -182,3 +182,37 @@ pub fn mirror_largest_sum(n: &Scenario) -> f64 {
         .map(|(a, b)| (a + b).abs())
         .fold(0.0, f64::max)
 }
+
+/// A small fin or wire for the 3D checks (6 x 10 nm body, 14 nm gate,
+/// short source and drain, coarse 1 nm mesh) with `extra_geometry` lines and
+/// gate steps of `vgs_step_v`, as device-file text.
+pub fn small_fin_text(arch: &str, extra_geometry: &str, vgs_step_v: f64) -> String {
+    format!(
+        r#"
+name = "small-{arch}"
+architecture = "{arch}"
+[geometry]
+gate_length_nm = 14
+body_thickness_nm = 6
+fin_height_nm = 10
+fin_pitch_nm = 16
+box_thickness_nm = 8
+source_drain_length_nm = 8
+gate_height_nm = 4
+{extra_geometry}
+[[gate_stack]]
+material = "SiO2"
+thickness_nm = 1.0
+[gate]
+workfunction_eV = 4.6
+[doping]
+channel_cm3 = 1e16
+[bias]
+vgs_start_V = -0.3
+vgs_stop_V = 0.5
+vgs_step_V = {vgs_step_v}
+[mesh]
+max_step_nm = 1.0
+"#
+    )
+}
